@@ -1,0 +1,47 @@
+import 'reflect-metadata';
+import { mkdirSync } from 'node:fs';
+import type { Server } from 'node:http';
+import pino from 'pino';
+import { createApp } from './app.js';
+import { loadConfig } from './config.js';
+import { openDatabase } from './data-source.js';
+import { seedDemo } from './services/demo-seed.service.js';
+
+// Entry point: config → data source → app → listen; graceful stop on SIGTERM/SIGINT.
+async function main() {
+  const config = loadConfig();
+  const log = pino({ level: config.logLevel, ...(config.env === 'development' ? { transport: { target: 'pino-pretty' } } : {}) });
+  mkdirSync(config.dataDir, { recursive: true });
+  const dataSource = await openDatabase({ database: config.databasePath });
+  if (config.seedDemo) await seedDemo(dataSource, log);
+
+  const { app } = createApp({ config, dataSource, log });
+  const server: Server = app.listen(config.port, config.host, () => {
+    const address = server.address();
+    const port = typeof address === 'object' && address ? address.port : config.port;
+    log.info({ dataDir: config.dataDir }, `Driftline listening on http://${config.host}:${port}`);
+    // Plain line too, for people and scripts reading the console.
+    console.log(`Driftline listening on http://${config.host}:${port}`);
+  });
+
+  let stopping = false;
+  const stop = (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    log.info({ signal }, 'stopping');
+    const force = setTimeout(() => process.exit(1), 10_000).unref();
+    server.close(async () => {
+      await dataSource.destroy();
+      clearTimeout(force);
+      process.exit(0);
+    });
+    server.closeIdleConnections();
+  };
+  process.on('SIGTERM', () => stop('SIGTERM'));
+  process.on('SIGINT', () => stop('SIGINT'));
+}
+
+main().catch((err) => {
+  console.error(err instanceof Error ? err.message : err);
+  process.exit(1);
+});

@@ -1,0 +1,31 @@
+import type { NextFunction, Request, Response } from 'express';
+import { z } from 'zod';
+import { badRequest } from '../http-error.js';
+
+interface Schemas {
+  body?: z.ZodType;
+  params?: z.ZodType;
+  query?: z.ZodType;
+}
+
+/** Validates body, params and query with zod; the parsed values land in `res.locals.body/params/query`. */
+export function validate(schemas: Schemas) {
+  return (req: Request, res: Response, next: NextFunction) => {
+    for (const part of ['params', 'query', 'body'] as const) {
+      const schema = schemas[part];
+      if (!schema) continue;
+      const result = schema.safeParse(req[part] ?? {});
+      if (!result.success) {
+        const flat = z.flattenError(result.error);
+        const first = result.error.issues[0];
+        const where = first?.path.length ? `${first.path.join('.')}: ` : '';
+        throw badRequest(`The request ${part === 'body' ? 'body' : part} is not valid: ${where}${first?.message ?? 'invalid'}.`, {
+          fieldErrors: flat.fieldErrors,
+          formErrors: flat.formErrors,
+        });
+      }
+      res.locals[part] = result.data;
+    }
+    next();
+  };
+}

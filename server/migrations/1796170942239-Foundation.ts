@@ -1,0 +1,126 @@
+import type { MigrationInterface, QueryRunner } from "typeorm";
+
+export class Foundation1796170942239 implements MigrationInterface {
+    name = 'Foundation1796170942239'
+
+    public async up(queryRunner: QueryRunner): Promise<void> {
+        await queryRunner.query(`CREATE TABLE "organizations" ("id" text PRIMARY KEY NOT NULL, "name" text NOT NULL, "kind" text NOT NULL, "timezone" text NOT NULL, "created_at" datetime NOT NULL DEFAULT (datetime('now')), CONSTRAINT "UQ_9b7ca6d30b94fef571cff876884" UNIQUE ("name"))`);
+        await queryRunner.query(`CREATE TABLE "users" ("id" text PRIMARY KEY NOT NULL, "email" text NOT NULL, "name" text NOT NULL, "role" text NOT NULL, "organization_id" text NOT NULL, "password_hash" text NOT NULL, "status" text NOT NULL DEFAULT ('active'), "last_sign_in_at" datetime, "created_at" datetime NOT NULL DEFAULT (datetime('now')))`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_97672ac88f789774dd47f7c8be" ON "users" ("email") `);
+        await queryRunner.query(`CREATE TABLE "audit_events" ("id" integer PRIMARY KEY AUTOINCREMENT NOT NULL, "at" datetime NOT NULL, "actor_id" text, "organization_id" text, "action" text NOT NULL, "target_type" text NOT NULL, "target_id" text, "summary" text NOT NULL, "details" text)`);
+        await queryRunner.query(`CREATE INDEX "IDX_3648e11676f1929b9875ee272b" ON "audit_events" ("at") `);
+        await queryRunner.query(`CREATE TABLE "invitations" ("id" text PRIMARY KEY NOT NULL, "email" text NOT NULL, "name" text NOT NULL, "role" text NOT NULL, "organization_id" text NOT NULL, "token_hash" text NOT NULL, "invited_by_id" text, "created_at" datetime NOT NULL DEFAULT (datetime('now')), "expires_at" datetime NOT NULL, "accepted_at" datetime, "revoked_at" datetime)`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_872ac94a64b3d44fc4b554780c" ON "invitations" ("token_hash") `);
+        await queryRunner.query(`CREATE TABLE "sites" ("id" text PRIMARY KEY NOT NULL, "name" text NOT NULL, "city" text NOT NULL, "timezone" text NOT NULL, "organization_id" text NOT NULL, "settings" text NOT NULL DEFAULT ('{}'), "created_at" datetime NOT NULL DEFAULT (datetime('now')))`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_7a8e7eb87e596284dff09dd1b0" ON "sites" ("organization_id", "name") `);
+        await queryRunner.query(`CREATE TABLE "robots" ("id" text PRIMARY KEY NOT NULL, "site_id" text NOT NULL, "name" text NOT NULL, "model" text NOT NULL, "mounts" text NOT NULL, "created_at" datetime NOT NULL DEFAULT (datetime('now')))`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_5a801aadedb3493a81b64572a9" ON "robots" ("site_id", "name") `);
+        await queryRunner.query(`CREATE TABLE "robot_tokens" ("id" text PRIMARY KEY NOT NULL, "robot_id" text NOT NULL, "label" text NOT NULL, "prefix" text NOT NULL, "token_hash" text NOT NULL, "created_by_id" text, "created_at" datetime NOT NULL DEFAULT (datetime('now')), "last_used_at" datetime, "revoked_at" datetime)`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_49f670192a3fed6fd2e6ed81e1" ON "robot_tokens" ("token_hash") `);
+        await queryRunner.query(`CREATE TABLE "sessions" ("id" text PRIMARY KEY NOT NULL, "user_id" text NOT NULL, "expires_at" integer NOT NULL)`);
+        await queryRunner.query(`CREATE INDEX "IDX_085d540d9f418cfbdc7bd55bb1" ON "sessions" ("user_id") `);
+        await queryRunner.query(`DROP INDEX "IDX_97672ac88f789774dd47f7c8be"`);
+        await queryRunner.query(`CREATE TABLE "temporary_users" ("id" text PRIMARY KEY NOT NULL, "email" text NOT NULL, "name" text NOT NULL, "role" text NOT NULL, "organization_id" text NOT NULL, "password_hash" text NOT NULL, "status" text NOT NULL DEFAULT ('active'), "last_sign_in_at" datetime, "created_at" datetime NOT NULL DEFAULT (datetime('now')), CONSTRAINT "FK_21a659804ed7bf61eb91688dea7" FOREIGN KEY ("organization_id") REFERENCES "organizations" ("id") ON DELETE RESTRICT ON UPDATE NO ACTION)`);
+        await queryRunner.query(`INSERT INTO "temporary_users"("id", "email", "name", "role", "organization_id", "password_hash", "status", "last_sign_in_at", "created_at") SELECT "id", "email", "name", "role", "organization_id", "password_hash", "status", "last_sign_in_at", "created_at" FROM "users"`);
+        await queryRunner.query(`DROP TABLE "users"`);
+        await queryRunner.query(`ALTER TABLE "temporary_users" RENAME TO "users"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_97672ac88f789774dd47f7c8be" ON "users" ("email") `);
+        await queryRunner.query(`DROP INDEX "IDX_3648e11676f1929b9875ee272b"`);
+        await queryRunner.query(`CREATE TABLE "temporary_audit_events" ("id" integer PRIMARY KEY AUTOINCREMENT NOT NULL, "at" datetime NOT NULL, "actor_id" text, "organization_id" text, "action" text NOT NULL, "target_type" text NOT NULL, "target_id" text, "summary" text NOT NULL, "details" text, CONSTRAINT "FK_04c7c044146c6632491a370fc04" FOREIGN KEY ("actor_id") REFERENCES "users" ("id") ON DELETE SET NULL ON UPDATE NO ACTION)`);
+        await queryRunner.query(`INSERT INTO "temporary_audit_events"("id", "at", "actor_id", "organization_id", "action", "target_type", "target_id", "summary", "details") SELECT "id", "at", "actor_id", "organization_id", "action", "target_type", "target_id", "summary", "details" FROM "audit_events"`);
+        await queryRunner.query(`DROP TABLE "audit_events"`);
+        await queryRunner.query(`ALTER TABLE "temporary_audit_events" RENAME TO "audit_events"`);
+        await queryRunner.query(`CREATE INDEX "IDX_3648e11676f1929b9875ee272b" ON "audit_events" ("at") `);
+        await queryRunner.query(`DROP INDEX "IDX_872ac94a64b3d44fc4b554780c"`);
+        await queryRunner.query(`CREATE TABLE "temporary_invitations" ("id" text PRIMARY KEY NOT NULL, "email" text NOT NULL, "name" text NOT NULL, "role" text NOT NULL, "organization_id" text NOT NULL, "token_hash" text NOT NULL, "invited_by_id" text, "created_at" datetime NOT NULL DEFAULT (datetime('now')), "expires_at" datetime NOT NULL, "accepted_at" datetime, "revoked_at" datetime, CONSTRAINT "FK_42d1dbb4d85dc3643fdc6560af0" FOREIGN KEY ("organization_id") REFERENCES "organizations" ("id") ON DELETE CASCADE ON UPDATE NO ACTION, CONSTRAINT "FK_d4de0403dd012cf87b430af70ef" FOREIGN KEY ("invited_by_id") REFERENCES "users" ("id") ON DELETE SET NULL ON UPDATE NO ACTION)`);
+        await queryRunner.query(`INSERT INTO "temporary_invitations"("id", "email", "name", "role", "organization_id", "token_hash", "invited_by_id", "created_at", "expires_at", "accepted_at", "revoked_at") SELECT "id", "email", "name", "role", "organization_id", "token_hash", "invited_by_id", "created_at", "expires_at", "accepted_at", "revoked_at" FROM "invitations"`);
+        await queryRunner.query(`DROP TABLE "invitations"`);
+        await queryRunner.query(`ALTER TABLE "temporary_invitations" RENAME TO "invitations"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_872ac94a64b3d44fc4b554780c" ON "invitations" ("token_hash") `);
+        await queryRunner.query(`DROP INDEX "IDX_7a8e7eb87e596284dff09dd1b0"`);
+        await queryRunner.query(`CREATE TABLE "temporary_sites" ("id" text PRIMARY KEY NOT NULL, "name" text NOT NULL, "city" text NOT NULL, "timezone" text NOT NULL, "organization_id" text NOT NULL, "settings" text NOT NULL DEFAULT ('{}'), "created_at" datetime NOT NULL DEFAULT (datetime('now')), CONSTRAINT "FK_b96b37d323d21068b5162941546" FOREIGN KEY ("organization_id") REFERENCES "organizations" ("id") ON DELETE RESTRICT ON UPDATE NO ACTION)`);
+        await queryRunner.query(`INSERT INTO "temporary_sites"("id", "name", "city", "timezone", "organization_id", "settings", "created_at") SELECT "id", "name", "city", "timezone", "organization_id", "settings", "created_at" FROM "sites"`);
+        await queryRunner.query(`DROP TABLE "sites"`);
+        await queryRunner.query(`ALTER TABLE "temporary_sites" RENAME TO "sites"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_7a8e7eb87e596284dff09dd1b0" ON "sites" ("organization_id", "name") `);
+        await queryRunner.query(`DROP INDEX "IDX_5a801aadedb3493a81b64572a9"`);
+        await queryRunner.query(`CREATE TABLE "temporary_robots" ("id" text PRIMARY KEY NOT NULL, "site_id" text NOT NULL, "name" text NOT NULL, "model" text NOT NULL, "mounts" text NOT NULL, "created_at" datetime NOT NULL DEFAULT (datetime('now')), CONSTRAINT "FK_65e05b196ba3ca1e41aeeb9a8f9" FOREIGN KEY ("site_id") REFERENCES "sites" ("id") ON DELETE CASCADE ON UPDATE NO ACTION)`);
+        await queryRunner.query(`INSERT INTO "temporary_robots"("id", "site_id", "name", "model", "mounts", "created_at") SELECT "id", "site_id", "name", "model", "mounts", "created_at" FROM "robots"`);
+        await queryRunner.query(`DROP TABLE "robots"`);
+        await queryRunner.query(`ALTER TABLE "temporary_robots" RENAME TO "robots"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_5a801aadedb3493a81b64572a9" ON "robots" ("site_id", "name") `);
+        await queryRunner.query(`DROP INDEX "IDX_49f670192a3fed6fd2e6ed81e1"`);
+        await queryRunner.query(`CREATE TABLE "temporary_robot_tokens" ("id" text PRIMARY KEY NOT NULL, "robot_id" text NOT NULL, "label" text NOT NULL, "prefix" text NOT NULL, "token_hash" text NOT NULL, "created_by_id" text, "created_at" datetime NOT NULL DEFAULT (datetime('now')), "last_used_at" datetime, "revoked_at" datetime, CONSTRAINT "FK_caf0524050e61b939b4bfbd64da" FOREIGN KEY ("robot_id") REFERENCES "robots" ("id") ON DELETE CASCADE ON UPDATE NO ACTION, CONSTRAINT "FK_cc87aaaa5e7442aaf265e9cd4eb" FOREIGN KEY ("created_by_id") REFERENCES "users" ("id") ON DELETE SET NULL ON UPDATE NO ACTION)`);
+        await queryRunner.query(`INSERT INTO "temporary_robot_tokens"("id", "robot_id", "label", "prefix", "token_hash", "created_by_id", "created_at", "last_used_at", "revoked_at") SELECT "id", "robot_id", "label", "prefix", "token_hash", "created_by_id", "created_at", "last_used_at", "revoked_at" FROM "robot_tokens"`);
+        await queryRunner.query(`DROP TABLE "robot_tokens"`);
+        await queryRunner.query(`ALTER TABLE "temporary_robot_tokens" RENAME TO "robot_tokens"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_49f670192a3fed6fd2e6ed81e1" ON "robot_tokens" ("token_hash") `);
+        await queryRunner.query(`DROP INDEX "IDX_085d540d9f418cfbdc7bd55bb1"`);
+        await queryRunner.query(`CREATE TABLE "temporary_sessions" ("id" text PRIMARY KEY NOT NULL, "user_id" text NOT NULL, "expires_at" integer NOT NULL, CONSTRAINT "FK_085d540d9f418cfbdc7bd55bb19" FOREIGN KEY ("user_id") REFERENCES "users" ("id") ON DELETE CASCADE ON UPDATE NO ACTION)`);
+        await queryRunner.query(`INSERT INTO "temporary_sessions"("id", "user_id", "expires_at") SELECT "id", "user_id", "expires_at" FROM "sessions"`);
+        await queryRunner.query(`DROP TABLE "sessions"`);
+        await queryRunner.query(`ALTER TABLE "temporary_sessions" RENAME TO "sessions"`);
+        await queryRunner.query(`CREATE INDEX "IDX_085d540d9f418cfbdc7bd55bb1" ON "sessions" ("user_id") `);
+    }
+
+    public async down(queryRunner: QueryRunner): Promise<void> {
+        await queryRunner.query(`DROP INDEX "IDX_085d540d9f418cfbdc7bd55bb1"`);
+        await queryRunner.query(`ALTER TABLE "sessions" RENAME TO "temporary_sessions"`);
+        await queryRunner.query(`CREATE TABLE "sessions" ("id" text PRIMARY KEY NOT NULL, "user_id" text NOT NULL, "expires_at" integer NOT NULL)`);
+        await queryRunner.query(`INSERT INTO "sessions"("id", "user_id", "expires_at") SELECT "id", "user_id", "expires_at" FROM "temporary_sessions"`);
+        await queryRunner.query(`DROP TABLE "temporary_sessions"`);
+        await queryRunner.query(`CREATE INDEX "IDX_085d540d9f418cfbdc7bd55bb1" ON "sessions" ("user_id") `);
+        await queryRunner.query(`DROP INDEX "IDX_49f670192a3fed6fd2e6ed81e1"`);
+        await queryRunner.query(`ALTER TABLE "robot_tokens" RENAME TO "temporary_robot_tokens"`);
+        await queryRunner.query(`CREATE TABLE "robot_tokens" ("id" text PRIMARY KEY NOT NULL, "robot_id" text NOT NULL, "label" text NOT NULL, "prefix" text NOT NULL, "token_hash" text NOT NULL, "created_by_id" text, "created_at" datetime NOT NULL DEFAULT (datetime('now')), "last_used_at" datetime, "revoked_at" datetime)`);
+        await queryRunner.query(`INSERT INTO "robot_tokens"("id", "robot_id", "label", "prefix", "token_hash", "created_by_id", "created_at", "last_used_at", "revoked_at") SELECT "id", "robot_id", "label", "prefix", "token_hash", "created_by_id", "created_at", "last_used_at", "revoked_at" FROM "temporary_robot_tokens"`);
+        await queryRunner.query(`DROP TABLE "temporary_robot_tokens"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_49f670192a3fed6fd2e6ed81e1" ON "robot_tokens" ("token_hash") `);
+        await queryRunner.query(`DROP INDEX "IDX_5a801aadedb3493a81b64572a9"`);
+        await queryRunner.query(`ALTER TABLE "robots" RENAME TO "temporary_robots"`);
+        await queryRunner.query(`CREATE TABLE "robots" ("id" text PRIMARY KEY NOT NULL, "site_id" text NOT NULL, "name" text NOT NULL, "model" text NOT NULL, "mounts" text NOT NULL, "created_at" datetime NOT NULL DEFAULT (datetime('now')))`);
+        await queryRunner.query(`INSERT INTO "robots"("id", "site_id", "name", "model", "mounts", "created_at") SELECT "id", "site_id", "name", "model", "mounts", "created_at" FROM "temporary_robots"`);
+        await queryRunner.query(`DROP TABLE "temporary_robots"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_5a801aadedb3493a81b64572a9" ON "robots" ("site_id", "name") `);
+        await queryRunner.query(`DROP INDEX "IDX_7a8e7eb87e596284dff09dd1b0"`);
+        await queryRunner.query(`ALTER TABLE "sites" RENAME TO "temporary_sites"`);
+        await queryRunner.query(`CREATE TABLE "sites" ("id" text PRIMARY KEY NOT NULL, "name" text NOT NULL, "city" text NOT NULL, "timezone" text NOT NULL, "organization_id" text NOT NULL, "settings" text NOT NULL DEFAULT ('{}'), "created_at" datetime NOT NULL DEFAULT (datetime('now')))`);
+        await queryRunner.query(`INSERT INTO "sites"("id", "name", "city", "timezone", "organization_id", "settings", "created_at") SELECT "id", "name", "city", "timezone", "organization_id", "settings", "created_at" FROM "temporary_sites"`);
+        await queryRunner.query(`DROP TABLE "temporary_sites"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_7a8e7eb87e596284dff09dd1b0" ON "sites" ("organization_id", "name") `);
+        await queryRunner.query(`DROP INDEX "IDX_872ac94a64b3d44fc4b554780c"`);
+        await queryRunner.query(`ALTER TABLE "invitations" RENAME TO "temporary_invitations"`);
+        await queryRunner.query(`CREATE TABLE "invitations" ("id" text PRIMARY KEY NOT NULL, "email" text NOT NULL, "name" text NOT NULL, "role" text NOT NULL, "organization_id" text NOT NULL, "token_hash" text NOT NULL, "invited_by_id" text, "created_at" datetime NOT NULL DEFAULT (datetime('now')), "expires_at" datetime NOT NULL, "accepted_at" datetime, "revoked_at" datetime)`);
+        await queryRunner.query(`INSERT INTO "invitations"("id", "email", "name", "role", "organization_id", "token_hash", "invited_by_id", "created_at", "expires_at", "accepted_at", "revoked_at") SELECT "id", "email", "name", "role", "organization_id", "token_hash", "invited_by_id", "created_at", "expires_at", "accepted_at", "revoked_at" FROM "temporary_invitations"`);
+        await queryRunner.query(`DROP TABLE "temporary_invitations"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_872ac94a64b3d44fc4b554780c" ON "invitations" ("token_hash") `);
+        await queryRunner.query(`DROP INDEX "IDX_3648e11676f1929b9875ee272b"`);
+        await queryRunner.query(`ALTER TABLE "audit_events" RENAME TO "temporary_audit_events"`);
+        await queryRunner.query(`CREATE TABLE "audit_events" ("id" integer PRIMARY KEY AUTOINCREMENT NOT NULL, "at" datetime NOT NULL, "actor_id" text, "organization_id" text, "action" text NOT NULL, "target_type" text NOT NULL, "target_id" text, "summary" text NOT NULL, "details" text)`);
+        await queryRunner.query(`INSERT INTO "audit_events"("id", "at", "actor_id", "organization_id", "action", "target_type", "target_id", "summary", "details") SELECT "id", "at", "actor_id", "organization_id", "action", "target_type", "target_id", "summary", "details" FROM "temporary_audit_events"`);
+        await queryRunner.query(`DROP TABLE "temporary_audit_events"`);
+        await queryRunner.query(`CREATE INDEX "IDX_3648e11676f1929b9875ee272b" ON "audit_events" ("at") `);
+        await queryRunner.query(`DROP INDEX "IDX_97672ac88f789774dd47f7c8be"`);
+        await queryRunner.query(`ALTER TABLE "users" RENAME TO "temporary_users"`);
+        await queryRunner.query(`CREATE TABLE "users" ("id" text PRIMARY KEY NOT NULL, "email" text NOT NULL, "name" text NOT NULL, "role" text NOT NULL, "organization_id" text NOT NULL, "password_hash" text NOT NULL, "status" text NOT NULL DEFAULT ('active'), "last_sign_in_at" datetime, "created_at" datetime NOT NULL DEFAULT (datetime('now')))`);
+        await queryRunner.query(`INSERT INTO "users"("id", "email", "name", "role", "organization_id", "password_hash", "status", "last_sign_in_at", "created_at") SELECT "id", "email", "name", "role", "organization_id", "password_hash", "status", "last_sign_in_at", "created_at" FROM "temporary_users"`);
+        await queryRunner.query(`DROP TABLE "temporary_users"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_97672ac88f789774dd47f7c8be" ON "users" ("email") `);
+        await queryRunner.query(`DROP INDEX "IDX_085d540d9f418cfbdc7bd55bb1"`);
+        await queryRunner.query(`DROP TABLE "sessions"`);
+        await queryRunner.query(`DROP INDEX "IDX_49f670192a3fed6fd2e6ed81e1"`);
+        await queryRunner.query(`DROP TABLE "robot_tokens"`);
+        await queryRunner.query(`DROP INDEX "IDX_5a801aadedb3493a81b64572a9"`);
+        await queryRunner.query(`DROP TABLE "robots"`);
+        await queryRunner.query(`DROP INDEX "IDX_7a8e7eb87e596284dff09dd1b0"`);
+        await queryRunner.query(`DROP TABLE "sites"`);
+        await queryRunner.query(`DROP INDEX "IDX_872ac94a64b3d44fc4b554780c"`);
+        await queryRunner.query(`DROP TABLE "invitations"`);
+        await queryRunner.query(`DROP INDEX "IDX_3648e11676f1929b9875ee272b"`);
+        await queryRunner.query(`DROP TABLE "audit_events"`);
+        await queryRunner.query(`DROP INDEX "IDX_97672ac88f789774dd47f7c8be"`);
+        await queryRunner.query(`DROP TABLE "users"`);
+        await queryRunner.query(`DROP TABLE "organizations"`);
+    }
+
+}

@@ -1,0 +1,56 @@
+import { Router } from 'express';
+import { rateLimit } from 'express-rate-limit';
+import { z } from 'zod';
+import type { Config } from '../config.js';
+import { HttpError } from '../http-error.js';
+import { actorOf, authenticate } from '../middleware/authenticate.js';
+import { validate } from '../middleware/validate.js';
+import type { Services } from '../services/index.js';
+import { email, password } from './schemas.js';
+
+const signInBody = z.strictObject({ email, password: z.string().min(1).max(1024) });
+const changePasswordBody = z.strictObject({ currentPassword: z.string().min(1).max(1024), newPassword: password });
+
+/** /api/auth: sign in, sign out, me, change password. */
+export function authRoutes(services: Services, config: Config) {
+  const router = Router();
+  const windowMs = 15 * 60_000;
+  const limited = () => {
+    throw new HttpError(429, 'rate_limited', 'Too many sign-in attempts. Please wait 15 minutes and try again.');
+  };
+  // Two limits: per address (many accounts from one place) and per account (one account from many places).
+  const perAddress = rateLimit({ windowMs, limit: config.signInLimits.perAddress, standardHeaders: 'draft-8', legacyHeaders: false, handler: limited });
+  const perAccount = rateLimit({
+    windowMs,
+    limit: config.signInLimits.perAccount,
+    skipSuccessfulRequests: true,
+    standardHeaders: false,
+    legacyHeaders: false,
+    keyGenerator: (req) => `account:${String(req.body?.email ?? '').toLowerCase()}`,
+    handler: limited,
+  });
+
+  router.post('/sign-in', perAddress, validate({ body: signInBody }), perAccount, async (_req, res) => {
+    const { email: e, password: p } = res.locals.body as z.infer<typeof signInBody>;
+    const { session, user } = await services.users.signIn(e, p);
+    res.append('Set-Cookie', session.serialize());
+    res.json({ user });
+  });
+
+  router.post('/sign-out', async (_req, res) => {
+    if (res.locals.sessionId) res.append('Set-Cookie', (await services.users.signOut(res.locals.sessionId)).serialize());
+    res.status(204).end();
+  });
+
+  router.get('/me', authenticate, async (_req, res) => {
+    res.json({ user: await services.users.me(actorOf(res)) });
+  });
+
+  router.post('/change-password', authenticate, validate({ body: changePasswordBody }), async (_req, res) => {
+    const body = res.locals.body as z.infer<typeof changePasswordBody>;
+    await services.users.changePassword(actorOf(res), res.locals.sessionId, body.currentPassword, body.newPassword);
+    res.status(204).end();
+  });
+
+  return router;
+}

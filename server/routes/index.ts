@@ -1,0 +1,48 @@
+import type { Router } from 'express';
+import type { DataSource } from 'typeorm';
+import type { Config } from '../config.js';
+import type { Services } from '../services/index.js';
+import { auditRoutes } from './audit.routes.js';
+import { authRoutes } from './auth.routes.js';
+import { healthRoutes } from './health.routes.js';
+import { invitationsRoutes } from './invitations.routes.js';
+import { organizationsRoutes } from './organizations.routes.js';
+import { robotsRoutes } from './robots.routes.js';
+import { sitesRoutes } from './sites.routes.js';
+import { usersRoutes } from './users.routes.js';
+
+/** One row per resource router, mounted under /api. */
+export interface RouteEntry {
+  path: string;
+  router: Router;
+}
+
+/** The route table: every API router and where it is mounted. */
+export function routeTable(services: Services, config: Config, db: DataSource, version: string): RouteEntry[] {
+  return [
+    { path: '/health', router: healthRoutes(db, version) },
+    { path: '/auth', router: authRoutes(services, config) },
+    { path: '/invitations', router: invitationsRoutes(services) },
+    { path: '/users', router: usersRoutes(services) },
+    { path: '/organizations', router: organizationsRoutes(services) },
+    { path: '/sites', router: sitesRoutes(services) },
+    { path: '/sites/:siteId/robots', router: robotsRoutes(services) },
+    { path: '/audit-events', router: auditRoutes(services) },
+  ];
+}
+
+/** Every METHOD /api/path the table serves, for the role-matrix test. */
+export function listRoutes(table: RouteEntry[]): string[] {
+  const out: string[] = [];
+  for (const { path, router } of table) {
+    for (const layer of router.stack as Array<{ route?: { path: string; methods: Record<string, boolean> } }>) {
+      if (!layer.route) continue;
+      for (const method of Object.keys(layer.route.methods)) {
+        if (method === '_all') continue;
+        const sub = layer.route.path === '/' ? '' : layer.route.path;
+        out.push(`${method.toUpperCase()} /api${path}${sub}`);
+      }
+    }
+  }
+  return out;
+}

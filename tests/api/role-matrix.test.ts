@@ -1,0 +1,105 @@
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { listRoutes } from '../../server/routes/index.js';
+import { createTestApp, demoAccount, demoIds, signIn, type TestApp } from './helpers/test-app.js';
+
+// Every API route, called by every role and by an anonymous client, must answer the status
+// written here. A route added without a row here makes the first test fail, so none escapes.
+
+type Who = 'anon' | 'admin' | 'mapper' | 'site_manager' | 'viewer';
+const WHO: Who[] = ['anon', 'viewer', 'site_manager', 'mapper', 'admin'];
+type Ids = Awaited<ReturnType<typeof demoIds>>;
+interface Ctx { t: TestApp; ids: Ids; who: Who; n: number }
+interface Prepared { path?: string; body?: unknown; cookie?: string | null }
+interface Case { route: string; expect: Record<Who, number>; prepare?: (c: Ctx) => Promise<Prepared> | Prepared; body?: (c: Ctx) => unknown }
+
+const all = (s: number): Record<Who, number> => ({ anon: s, admin: s, mapper: s, site_manager: s, viewer: s });
+const signedIn = (s: number): Record<Who, number> => ({ ...all(s), anon: 401 });
+const adminOnly = (s: number): Record<Who, number> => ({ anon: 401, admin: s, mapper: 403, site_manager: 403, viewer: 403 });
+const managers = (s: number): Record<Who, number> => ({ anon: 401, admin: s, mapper: s, site_manager: s, viewer: 403 });
+
+async function newInvitation(c: Ctx) {
+  return c.t.services.invitations.create(c.ids.admin, { email: `matrix-${c.who}-${c.n}@ambergate.example`, name: 'Matrix Invitee', role: 'viewer', organizationId: c.ids.ambergate });
+}
+const operator = (c: Ctx) => c.ids.admin;
+async function newRobot(c: Ctx) {
+  return c.t.services.robots.create(operator(c), c.ids.ambergateSite, { name: `MX-${c.who}-${c.n}`, model: 'Matrix test', mounts: [] });
+}
+
+const CASES: Case[] = [
+  { route: 'GET /api/health', expect: all(200) },
+  { route: 'POST /api/auth/sign-in', expect: all(200), body: () => ({ email: 'priya.manager@corvane.example', password: 'demo-manager-2026' }) },
+  { route: 'POST /api/auth/sign-out', expect: all(204), prepare: async (c) => ({ cookie: c.who === 'anon' ? null : await signIn(c.t.app, demoAccount(c.who).email, demoAccount(c.who).password) }) },
+  { route: 'GET /api/auth/me', expect: signedIn(200) },
+  { route: 'GET /api/invitations', expect: adminOnly(200) },
+  { route: 'POST /api/invitations', expect: adminOnly(201), body: (c) => ({ email: `new-${c.who}-${c.n}@ambergate.example`, name: 'New Person', role: 'viewer', organizationId: c.ids.ambergate }) },
+  { route: 'DELETE /api/invitations/:id', expect: adminOnly(204), prepare: async (c) => ({ path: `/api/invitations/${(await newInvitation(c)).invitation.id}` }) },
+  { route: 'GET /api/invitations/token/:token', expect: all(200), prepare: async (c) => ({ path: `/api/invitations/token/${(await newInvitation(c)).link.split('/').pop()}` }) },
+  { route: 'POST /api/invitations/token/:token/accept', expect: all(200), body: () => ({ password: 'a-long-enough-password' }), prepare: async (c) => ({ path: `/api/invitations/token/${(await newInvitation(c)).link.split('/').pop()}/accept` }) },
+  { route: 'GET /api/users', expect: adminOnly(200) },
+  { route: 'PATCH /api/users/:id', expect: adminOnly(200), body: () => ({ status: 'active' }), prepare: (c) => ({ path: `/api/users/${c.ids.priya}` }) },
+  { route: 'GET /api/organizations', expect: signedIn(200) },
+  { route: 'POST /api/organizations', expect: adminOnly(201), body: (c) => ({ name: `Matrix Org ${c.who} ${c.n}`, timezone: 'Europe/Berlin' }) },
+  { route: 'GET /api/sites', expect: signedIn(200) },
+  { route: 'POST /api/sites', expect: adminOnly(201), body: (c) => ({ name: `Matrix Site ${c.who} ${c.n}`, city: 'Nowhere', timezone: 'Europe/London', organizationId: c.ids.ambergate }) },
+  { route: 'GET /api/sites/:siteId', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}` }) },
+  { route: 'GET /api/sites/:siteId/robots', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/robots` }) },
+  { route: 'POST /api/sites/:siteId/robots', expect: managers(201), body: (c) => ({ name: `MXP-${c.who}-${c.n}`, model: 'Matrix', mounts: [{ name: 'front', x: 0.3, y: 0, yaw: 0 }] }), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/robots` }) },
+  { route: 'PATCH /api/sites/:siteId/robots/:robotId', expect: managers(200), body: () => ({ model: 'Renamed model' }), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/robots/${c.ids.ambergateRobot}` }) },
+  { route: 'DELETE /api/sites/:siteId/robots/:robotId', expect: managers(204), prepare: async (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/robots/${(await newRobot(c)).id}` }) },
+  { route: 'GET /api/sites/:siteId/robots/:robotId/tokens', expect: managers(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/robots/${c.ids.ambergateRobot}/tokens` }) },
+  { route: 'POST /api/sites/:siteId/robots/:robotId/tokens', expect: managers(201), body: () => ({ label: 'matrix' }), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/robots/${c.ids.ambergateRobot}/tokens` }) },
+  {
+    route: 'DELETE /api/sites/:siteId/robots/:robotId/tokens/:tokenId',
+    expect: managers(204),
+    prepare: async (c) => {
+      const { token } = await c.t.services.robots.createToken(operator(c), c.ids.ambergateSite, c.ids.ambergateRobot, 'to revoke');
+      return { path: `/api/sites/${c.ids.ambergateSite}/robots/${c.ids.ambergateRobot}/tokens/${token.id}` };
+    },
+  },
+  { route: 'GET /api/audit-events', expect: adminOnly(200) },
+  // Last: it changes each role's password (the role's session stays open).
+  {
+    route: 'POST /api/auth/change-password',
+    expect: signedIn(204),
+    body: (c) => (c.who === 'anon' ? { currentPassword: 'whatever-it-is', newPassword: 'whatever-it-is-2' } : { currentPassword: demoAccount(c.who).password, newPassword: `${demoAccount(c.who).password}-changed` }),
+  },
+];
+
+describe('role matrix', () => {
+  let t: TestApp;
+  let ids: Ids;
+  const cookies = new Map<Who, string>();
+
+  beforeAll(async () => {
+    t = await createTestApp();
+    ids = await demoIds(t.dataSource);
+    for (const who of WHO) if (who !== 'anon') cookies.set(who, await signIn(t.app, demoAccount(who).email, demoAccount(who).password));
+  });
+  afterAll(() => t.close());
+
+  it('when the route table is listed, then every route has a row in the matrix and every row a route', () => {
+    const served = listRoutes(t.routes).sort();
+    const described = CASES.map((c) => c.route).sort();
+    expect(described).toEqual(served);
+  });
+
+  let n = 0;
+  for (const c of CASES) {
+    it(`when every role calls ${c.route}, then each gets its expected status`, async () => {
+      const got: Record<string, number> = {};
+      for (const who of WHO) {
+        const ctx: Ctx = { t, ids, who, n: n++ };
+        const prepared = (await c.prepare?.(ctx)) ?? {};
+        const [method, path] = c.route.split(' ');
+        let req = request(t.app)[method.toLowerCase() as 'get'](prepared.path ?? path);
+        const cookie = prepared.cookie !== undefined ? prepared.cookie : cookies.get(who);
+        if (cookie) req = req.set('Cookie', cookie);
+        const body = c.body?.(ctx);
+        const res = body === undefined ? await req : await req.send(body as object);
+        got[who] = res.status;
+      }
+      expect(got).toEqual(c.expect);
+    });
+  }
+});

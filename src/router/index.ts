@@ -1,0 +1,97 @@
+import { createRouter, createWebHistory, type RouteRecordRaw } from 'vue-router';
+import { installGuards } from './guards';
+
+/** The app's routes: every view is lazy, every route is named, roles live in meta. */
+export const routes: RouteRecordRaw[] = [
+  {
+    path: '/sign-in',
+    name: 'sign-in',
+    component: () => import('@/views/SignInView.vue'),
+    meta: { public: true, layout: 'bare', title: 'Sign in' },
+  },
+  {
+    path: '/invite/:token',
+    name: 'invite-accept',
+    component: () => import('@/views/InviteAcceptView.vue'),
+    props: true,
+    meta: { public: true, layout: 'bare', title: 'Accept invitation' },
+  },
+  {
+    path: '/',
+    name: 'fleet-overview',
+    component: () => import('@/views/FleetOverviewView.vue'),
+    meta: { title: 'Fleet overview' },
+  },
+  {
+    path: '/safety-caution',
+    name: 'safety-caution',
+    component: () => import('@/views/SafetyCautionView.vue'),
+    meta: { title: 'What Driftline does not certify' },
+  },
+  {
+    path: '/sites/:siteId',
+    component: () => import('@/views/SiteView.vue'),
+    props: true,
+    children: [
+      {
+        path: '',
+        name: 'site-overview',
+        component: () => import('@/views/SiteOverviewView.vue'),
+        props: true,
+        meta: { title: 'Site' },
+      },
+      {
+        path: 'robots',
+        name: 'site-robots',
+        component: () => import('@/views/SiteRobotsView.vue'),
+        props: true,
+        meta: { title: 'Robots' },
+      },
+    ],
+  },
+  {
+    path: '/admin',
+    component: () => import('@/views/AdminView.vue'),
+    meta: { roles: ['admin'], title: 'Admin' },
+    children: [
+      { path: '', name: 'admin', redirect: { name: 'admin-users' } },
+      { path: 'users', name: 'admin-users', component: () => import('@/views/AdminUsersView.vue'), meta: { title: 'Users' } },
+      {
+        path: 'organizations',
+        name: 'admin-organizations',
+        component: () => import('@/views/AdminOrganizationsView.vue'),
+        meta: { title: 'Organizations' },
+      },
+      {
+        path: 'invitations',
+        name: 'admin-invitations',
+        component: () => import('@/views/AdminInvitationsView.vue'),
+        meta: { title: 'Invitations' },
+      },
+      { path: 'audit', name: 'admin-audit', component: () => import('@/views/AdminAuditView.vue'), meta: { title: 'Audit log' } },
+    ],
+  },
+  {
+    path: '/account',
+    name: 'account',
+    component: () => import('@/views/AccountView.vue'),
+    meta: { title: 'Your account' },
+  },
+  {
+    path: '/:pathMatch(.*)*',
+    name: 'not-found',
+    component: () => import('@/views/NotFoundView.vue'),
+    meta: { title: 'Page not found' },
+  },
+];
+
+/** Creates the app's router with its guard installed. */
+export function createAppRouter() {
+  const router = createRouter({
+    history: createWebHistory(),
+    routes,
+    scrollBehavior: (_to, _from, saved) => saved ?? { top: 0 },
+  });
+  installGuards(router);
+  return router;
+}

@@ -2,6 +2,7 @@ import 'reflect-metadata';
 import { DataSource } from 'typeorm';
 import { entities } from './entities/index.js';
 import { migrations } from './migrations/index.js';
+import { installTransactionLock } from './transaction-lock.js';
 
 /** Options for the one DataSource of a process. */
 export interface DataSourceOptions {
@@ -35,6 +36,7 @@ export async function openDatabase(options: DataSourceOptions): Promise<DataSour
   const dataSource = createDataSource(options);
   await dataSource.initialize();
   if (!options.synchronize) await dataSource.runMigrations({ transaction: 'each' });
+  installTransactionLock(dataSource);
   return dataSource;
 }
 

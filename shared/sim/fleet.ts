@@ -1,13 +1,11 @@
+import type { ScannerMount } from '../scan/accumulate.js';
 import { createRoute, type Route } from './route.js';
 import type { WarehouseLayout } from './warehouse.js';
 
-/** A scanner's mounting pose in the robot frame: metres and radians (x forward, y left). */
-export interface ScannerMount {
+/** A named scanner's mounting pose in the robot frame: metres and radians (x forward, y left). */
+export interface SimMount extends ScannerMount {
   /** Scanner name as it appears in scan records, e.g. "front". */
   name: string;
-  x: number;
-  y: number;
-  yaw: number;
 }
 
 /** The difference between a scanner's true and configured mount (metres, radians). */
@@ -36,9 +34,9 @@ export interface RobotOptions {
 export interface SimRobot {
   name: string;
   /** Mounts as configured (what the fleet manager and Driftline are told). */
-  mounts: ScannerMount[];
+  mounts: SimMount[];
   /** Mounts as they really are (configured + mount error). */
-  trueMounts: ScannerMount[];
+  trueMounts: SimMount[];
   route: Route;
   /** Driving speed, m/s. */
   speed: number;
@@ -46,8 +44,8 @@ export interface SimRobot {
 
 // Front scanner 0.45 m ahead of the base centre, rear one 0.45 m behind facing back: a
 // plausible layout for a 1 m long AMR with two corner-free scanners, invented for the demo.
-const FRONT: ScannerMount = { name: 'front', x: 0.45, y: 0, yaw: 0 };
-const REAR: ScannerMount = { name: 'rear', x: -0.45, y: 0, yaw: Math.PI };
+const FRONT: SimMount = { name: 'front', x: 0.45, y: 0, yaw: 0 };
+const REAR: SimMount = { name: 'rear', x: -0.45, y: 0, yaw: Math.PI };
 const DEFAULT_SPEED = 1.2;
 
 /** Default fleet: "AMR-01" … "AMR-0n", the third carrying a rear scanner. */

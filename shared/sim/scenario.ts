@@ -2,7 +2,7 @@ import { DateTime } from 'luxon';
 import { DEFAULT_FREE_THRESH, DEFAULT_OCCUPIED_THRESH } from '../grid/map-metadata.js';
 import type { MapMetadata, OccupancyGrid } from '../types/grid.js';
 import { planChanges, structureOnDay, surfaceDropout, type ChangeOptions, type ChangePlan, type ScriptedChange } from './changes.js';
-import { buildFleet, defaultRobotOptions, type MountError, type RobotOptions, type ScannerMount, type SimRobot } from './fleet.js';
+import { buildFleet, defaultRobotOptions, type MountError, type RobotOptions, type SimMount, type SimRobot } from './fleet.js';
 import { createRng, mixSeed } from './random.js';
 import { poseOnRoute } from './route.js';
 import { beamTable, castScan, safetyScannerModel, type ScannerModel } from './scanner.js';
@@ -12,8 +12,8 @@ import { createSnapshot, planTraffic, snapshotTraffic, type DayTraffic, type Tra
 import { buildWarehouse, type WarehouseLayout, type WarehouseOptions } from './warehouse.js';
 import { StaticWorld } from './world-index.js';
 
-/** One scan as a JSON line of a scan log (DESIGN §4.2): pose in metres/radians, ranges in metres, null = no return. */
-export interface SimScanRecord {
+/** One scan in its JSON-line form (DESIGN §4.2), as `parseScanLine` reads it: pose in metres/radians, ranges in metres, null = no return. */
+export interface ScanLogLine {
   t: string;
   robot: string;
   scanner: string;
@@ -78,7 +78,7 @@ export interface ScenarioTruth {
   /** Areas the stored map leaves unknown on purpose, metres. */
   blankedInMap: Box[];
   /** Each robot's configured mounts and its true mount errors (metres, radians). */
-  robots: { name: string; mounts: ScannerMount[]; mountErrors: { scanner: string; dx: number; dy: number; dyaw: number }[] }[];
+  robots: { name: string; mounts: SimMount[]; mountErrors: { scanner: string; dx: number; dy: number; dyaw: number }[] }[];
   noise: NoiseOptions;
 }
 
@@ -101,7 +101,7 @@ export interface Scenario {
   /** UTC start and end of day `day`'s working hours, milliseconds since the epoch. */
   workingWindow(day: number): [number, number];
   /** Lazily generates day `day`'s scans in time order (all robots, all scanners). */
-  scansForDay(day: number): Generator<SimScanRecord>;
+  scansForDay(day: number): Generator<ScanLogLine>;
 }
 
 /** Map resolution of the stored map, metres per cell (typical 5 cm: common practice). */
@@ -203,7 +203,7 @@ export function createScenario(options: ScenarioOptions): Scenario {
     return planTraffic(layout, seed, day, (b - a) / 1000, options.traffic);
   };
 
-  function* scansForDay(day: number): Generator<SimScanRecord> {
+  function* scansForDay(day: number): Generator<ScanLogLine> {
     const world = worldForDay(day);
     const traffic = trafficForDay(day);
     const [start, end] = workingWindow(day);

@@ -194,9 +194,12 @@ export function createScenario(options: ScenarioOptions): Scenario {
   };
   const workingWindow = (day: number): [number, number] => {
     checkDay(day);
-    // Local midnight plus hours via luxon keeps working hours right across DST changes.
+    // Set the local wall-clock hour rather than adding hours to midnight: on a day when the
+    // clocks change, midnight + 6 h is 05:00 or 07:00 local.
     const midnight = DateTime.fromISO(startDate, { zone }).plus({ days: day }).startOf('day');
-    return [midnight.plus({ hours: h0 }).toMillis(), midnight.plus({ hours: h1 }).toMillis()];
+    const at = (h: number): number =>
+      h >= 24 ? midnight.plus({ days: 1 }).toMillis() : midnight.set({ hour: Math.floor(h), minute: Math.round((h % 1) * 60) }).toMillis();
+    return [at(h0), at(h1)];
   };
   const trafficForDay = (day: number): DayTraffic => {
     const [a, b] = workingWindow(day);

@@ -1,8 +1,10 @@
 // Runs every benchmark in turn (`npm run bench`). Each bench module exports run(), which prints
 // its figures; append new benches to the list.
 import { run as traverse } from './traverse.bench.js';
+import { run as simulate } from './simulate.bench.js';
 
 const benches: [string, () => Promise<void>][] = [['traverse', traverse]];
+benches.push(['simulate', simulate]);
 
 for (const [name, run] of benches) {
   console.log(`\n== ${name} ==`);

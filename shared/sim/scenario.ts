@@ -73,8 +73,10 @@ export interface ScenarioTruth {
   startDate: string;
   siteTimezone: string;
   days: number;
-  /** Scripted changes with their geometry and active days. */
-  changes: Omit<ScriptedChange, 'boxes'>[];
+  /** Site-local calendar date (ISO) of each scenario day, index = day number. */
+  dayDates: string[];
+  /** Scripted changes with their outline, the exact boxes that make them up (metres) and active days. */
+  changes: (Omit<ScriptedChange, 'boxes'> & { parts: Box[] })[];
   /** Areas the stored map leaves unknown on purpose, metres. */
   blankedInMap: Box[];
   /** Each robot's configured mounts and its true mount errors (metres, radians). */
@@ -173,7 +175,8 @@ export function createScenario(options: ScenarioOptions): Scenario {
     startDate,
     siteTimezone: zone,
     days,
-    changes: plan.changes.map(({ boxes: _boxes, ...rest }) => rest),
+    dayDates: Array.from({ length: days }, (_, d) => DateTime.fromISO(startDate, { zone }).plus({ days: d }).toISODate()!),
+    changes: plan.changes.map(({ boxes, ...rest }) => ({ ...rest, parts: boxes.map(({ minX, minY, maxX, maxY }) => ({ minX, minY, maxX, maxY })) })),
     blankedInMap: plan.blanked,
     robots: robots.map((r) => ({
       name: r.name,

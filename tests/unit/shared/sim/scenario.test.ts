@@ -98,6 +98,7 @@ describe('createScenario', () => {
     // Assert
     expect(d0.map((t) => new Date(t).toISOString())).toEqual(['2026-10-24T04:00:00.000Z', '2026-10-24T20:00:00.000Z']);
     expect(d1.map((t) => new Date(t).toISOString())).toEqual(['2026-10-25T05:00:00.000Z', '2026-10-25T21:00:00.000Z']);
+    expect(sc.truth.dayDates).toEqual(['2026-10-24', '2026-10-25']);
   });
 
   it('when each scripted change begins, then returns appear in (or vanish from) its area that day and not before', () => {
@@ -124,6 +125,8 @@ describe('createScenario', () => {
     expect(returnsIn(sc, 4, pallets.bbox, 0.01)).toBeGreaterThan(20);
     expect(returnsIn(sc, 5, pallets.bbox, 0.01)).toBe(0);
     expect(pallets.persistence).toBe('intermittent');
+    expect(pallets.parts.length).toBe(8);
+    expect(pallets.days).toEqual([4, 6]);
   });
 
   it('when the stored map is read at each change, then it shows the day-0 building: bays mapped, fence area free, shelving area unknown', () => {

@@ -1,6 +1,7 @@
 import jStat from 'jstat';
 import { describe, expect, it } from 'vitest';
 import { parseScanLine } from '../../../../shared/scan/scan-record.js';
+import { beamTable, castScan } from '../../../../shared/sim/scanner.js';
 import { createScenario, type Scenario, type ScanLogLine, type ScenarioOptions } from '../../../../shared/sim/scenario.js';
 import type { Box } from '../../../../shared/sim/shapes.js';
 import { CellState } from '../../../../shared/types/grid.js';
@@ -99,6 +100,27 @@ describe('createScenario', () => {
     expect(d0.map((t) => new Date(t).toISOString())).toEqual(['2026-10-24T04:00:00.000Z', '2026-10-24T20:00:00.000Z']);
     expect(d1.map((t) => new Date(t).toISOString())).toEqual(['2026-10-25T05:00:00.000Z', '2026-10-25T21:00:00.000Z']);
     expect(sc.truth.dayDates).toEqual(['2026-10-24', '2026-10-25']);
+  });
+
+  it('when a scanner is hand-placed in the west aisle facing the west wall, then ranges equal 1.85 m / cos(bearing)', () => {
+    // Arrange: the wall's inner face is x = 0.3 and the scanner stands at x = 2.15, so a beam at
+    // bearing a from straight west meets it after 1.85 / cos a (right-triangle geometry) while
+    // its y stays between the south and north walls (|a| ≤ 75° from y = 30).
+    const sc = createScenario({ seed: 1, days: 1, startDate: '2026-11-02', scansPerRobotPerDay: 0 });
+    const out = new Float64Array(sc.scanner.beams);
+
+    // Act
+    castScan(sc.worldForDay(0), null, 2.15, 30, Math.PI, sc.scanner, beamTable(sc.scanner), null, out);
+
+    // Assert
+    let checked = 0;
+    for (let k = 0; k < sc.scanner.beams; k++) {
+      const a = sc.scanner.angleMin + k * sc.scanner.angleIncrement;
+      if (Math.abs(a) > (75 * Math.PI) / 180 + 1e-9) continue;
+      expect(out[k]).toBeCloseTo(1.85 / Math.cos(a), 9);
+      checked++;
+    }
+    expect(checked).toBe(301);
   });
 
   it('when each scripted change begins, then returns appear in (or vanish from) its area that day and not before', () => {

@@ -103,10 +103,12 @@ export function planChanges(layout: WarehouseLayout, seed: number, days: number,
 
   // (d) The mapper blanked a patch of the open area to unknown (goods stood there during the
   // mapping run); later shelving is set up inside it, so its returns land in unknown cells.
+  // The blanked patch belongs to the stored map whenever this change is on, even if the
+  // scenario ends before the shelving arrives: the map must not depend on the scenario length.
   const unmappedDays = daysFrom(options.unmappedFromDay, 18, days);
+  const gap: Box = { minX: oa.minX + 1.5, minY: oa.minY + 10, maxX: oa.minX + 6.5, maxY: oa.minY + 15 };
+  if (options.unmappedFromDay !== null) blanked.push(gap);
   if (unmappedDays.length > 0) {
-    const gap: Box = { minX: oa.minX + 1.5, minY: oa.minY + 10, maxX: oa.minX + 6.5, maxY: oa.minY + 15 };
-    blanked.push(gap);
     const shelf: Structure = { id: 'shelving-blanked-area', kind: 'rack', minX: gap.minX + 1, minY: gap.minY + 1, maxX: gap.maxX - 1, maxY: gap.maxY - 1 };
     changes.push(finish('unmapped-shelving', 'unmapped', 'persistent', 'Shelving set up where the map is unknown', [shelf], unmappedDays));
   }

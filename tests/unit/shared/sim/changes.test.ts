@@ -42,6 +42,8 @@ describe('planChanges', () => {
       ['pallets-staging', [2, 4]],
     ]);
     expect(custom.blanked).toEqual([]);
+    // The stored map's blanked patch does not depend on how many days are simulated.
+    expect(planChanges(layout, 5, 3).blanked).toEqual(a.blanked);
   });
 
   it('when the change outline is asked for, then it is the counter-clockwise bounding rectangle of its boxes', () => {

@@ -78,13 +78,18 @@ function readArgs(argv: string[]): { out: string; force: boolean; options: Scena
   }
   if (values.help) return 'help';
   if (!values.out) throw new UsageError('--out DIR is required: the folder to write the simulation to.');
+  const start = values.start ?? '2026-11-02';
+  // Date.parse accepts 2026-02-30 by rolling over; a round trip catches days that do not exist.
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(start) || Number.isNaN(Date.parse(start)) || new Date(start).toISOString().slice(0, 10) !== start) {
+    throw new UsageError(`--start must be a calendar date like 2026-11-02; got "${start}".`);
+  }
   return {
     out: values.out,
     force: values.force === true,
     options: {
       seed: wholeNumber('seed', values.seed, 1, -2147483648, 4294967295),
       days: wholeNumber('days', values.days, 28, 1, 366),
-      startDate: values.start ?? '2026-11-02',
+      startDate: start,
       siteTimezone: values.timezone ?? 'UTC',
       robots: wholeNumber('robots', values.robots, 3, 1, 20),
       scansPerRobotPerDay: wholeNumber('scans', values.scans, 240, 0, 100_000),

@@ -1,5 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import { z } from 'zod';
 
@@ -88,7 +89,7 @@ export function testConfig(overrides: Partial<Config> = {}): Config {
     env: 'test',
     host: '127.0.0.1',
     port: 0,
-    dataDir: '/nonexistent',
+    dataDir: path.join(os.tmpdir(), 'driftline-test'),
     databasePath: ':memory:',
     baseUrl: 'http://127.0.0.1:3000',
     secureCookies: false,

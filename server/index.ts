@@ -15,7 +15,8 @@ async function main() {
   const dataSource = await openDatabase({ database: config.databasePath });
   if (config.seedDemo) await seedDemo(dataSource, log);
 
-  const { app } = createApp({ config, dataSource, log });
+  const { app, services } = createApp({ config, dataSource, log });
+  await services.ingest.failInterrupted();
   const server: Server = app.listen(config.port, config.host, () => {
     const address = server.address();
     const port = typeof address === 'object' && address ? address.port : config.port;

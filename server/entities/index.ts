@@ -1,4 +1,8 @@
 import { AuditEvent } from './audit-event.entity.js';
+import { DailyStat } from './daily-stat.entity.js';
+import { EvidenceChunk } from './evidence-chunk.entity.js';
+import { MapVersion } from './map-version.entity.js';
+import { ScanBatch } from './scan-batch.entity.js';
 import { Invitation } from './invitation.entity.js';
 import { Organization } from './organization.entity.js';
 import { RobotToken } from './robot-token.entity.js';
@@ -7,7 +11,7 @@ import { Session } from './session.entity.js';
 import { Site } from './site.entity.js';
 import { User } from './user.entity.js';
 
-export { AuditEvent, Invitation, Organization, Robot, RobotToken, Session, Site, User };
+export { AuditEvent, DailyStat, EvidenceChunk, Invitation, MapVersion, Organization, Robot, RobotToken, ScanBatch, Session, Site, User };
 
 /** Every entity class, passed to the DataSource as classes (not globs). */
-export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent];
+export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat];

@@ -3,15 +3,16 @@ import { z } from 'zod';
 import { badRequest } from '../http-error.js';
 
 interface Schemas {
+  headers?: z.ZodType;
   body?: z.ZodType;
   params?: z.ZodType;
   query?: z.ZodType;
 }
 
-/** Validates body, params and query with zod; the parsed values land in `res.locals.body/params/query`. */
+/** Validates headers, params, query and body with zod; the parsed values land in `res.locals.headers/params/query/body`. */
 export function validate(schemas: Schemas) {
   return (req: Request, res: Response, next: NextFunction) => {
-    for (const part of ['params', 'query', 'body'] as const) {
+    for (const part of ['headers', 'params', 'query', 'body'] as const) {
       const schema = schemas[part];
       if (!schema) continue;
       const result = schema.safeParse(req[part] ?? {});

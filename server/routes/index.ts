@@ -5,9 +5,12 @@ import type { Services } from '../services/index.js';
 import { auditRoutes } from './audit.routes.js';
 import { authRoutes } from './auth.routes.js';
 import { healthRoutes } from './health.routes.js';
+import { ingestRoutes } from './ingest.routes.js';
 import { invitationsRoutes } from './invitations.routes.js';
+import { mapVersionsRoutes } from './map-versions.routes.js';
 import { organizationsRoutes } from './organizations.routes.js';
 import { robotsRoutes } from './robots.routes.js';
+import { scanBatchesRoutes } from './scan-batches.routes.js';
 import { sitesRoutes } from './sites.routes.js';
 import { usersRoutes } from './users.routes.js';
 
@@ -27,6 +30,9 @@ export function routeTable(services: Services, config: Config, db: DataSource, v
     { path: '/organizations', router: organizationsRoutes(services) },
     { path: '/sites', router: sitesRoutes(services) },
     { path: '/sites/:siteId/robots', router: robotsRoutes(services) },
+    { path: '/sites/:siteId/map-versions', router: mapVersionsRoutes(services) },
+    { path: '/sites/:siteId/scan-batches', router: scanBatchesRoutes(services, config) },
+    { path: '/ingest', router: ingestRoutes(services) },
     { path: '/audit-events', router: auditRoutes(services) },
   ];
 }

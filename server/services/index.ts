@@ -3,7 +3,9 @@ import type { DataSource } from 'typeorm';
 import type { Sessions } from '../auth/sessions.js';
 import type { Config } from '../config.js';
 import { AuditService } from './audit.service.js';
+import { IngestService } from './ingest.service.js';
 import { InvitationsService } from './invitations.service.js';
+import { MapVersionsService } from './map-versions.service.js';
 import { OrganizationsService } from './organizations.service.js';
 import { RobotsService } from './robots.service.js';
 import { SitesService } from './sites.service.js';
@@ -13,7 +15,10 @@ import { UsersService } from './users.service.js';
 export function createServices(db: DataSource, config: Config, sessions: Sessions, log: Logger) {
   const audit = new AuditService(db);
   const sites = new SitesService(db, audit);
+  const mapVersions = new MapVersionsService(db, sites, audit);
   return {
+    mapVersions,
+    ingest: new IngestService(db, sites, mapVersions, log),
     audit,
     sites,
     users: new UsersService(db, sessions, audit),

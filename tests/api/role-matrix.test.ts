@@ -1,6 +1,8 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { Robot } from '../../server/entities/index.js';
 import { listRoutes } from '../../server/routes/index.js';
+import { roomMap, scanLine } from './helpers/fixtures.js';
 import { createTestApp, demoAccount, demoIds, signIn, type TestApp } from './helpers/test-app.js';
 
 // Every API route, called by every role and by an anonymous client, must answer the status
@@ -11,7 +13,7 @@ const WHO: Who[] = ['anon', 'viewer', 'site_manager', 'mapper', 'admin'];
 type Ids = Awaited<ReturnType<typeof demoIds>>;
 interface Ctx { t: TestApp; ids: Ids; who: Who; n: number }
 interface Prepared { path?: string; body?: unknown; cookie?: string | null }
-interface Case { route: string; expect: Record<Who, number>; prepare?: (c: Ctx) => Promise<Prepared> | Prepared; body?: (c: Ctx) => unknown }
+interface Case { route: string; expect: Record<Who, number>; prepare?: (c: Ctx) => Promise<Prepared> | Prepared; body?: (c: Ctx) => unknown; attach?: (req: request.Test) => request.Test }
 
 const all = (s: number): Record<Who, number> => ({ anon: s, admin: s, mapper: s, site_manager: s, viewer: s });
 const signedIn = (s: number): Record<Who, number> => ({ ...all(s), anon: 401 });
@@ -22,6 +24,14 @@ async function newInvitation(c: Ctx) {
   return c.t.services.invitations.create(c.ids.admin, { email: `matrix-${c.who}-${c.n}@ambergate.example`, name: 'Matrix Invitee', role: 'viewer', organizationId: c.ids.ambergate });
 }
 const operator = (c: Ctx) => c.ids.admin;
+const mapFiles = (req: request.Test) => req.attach('image', roomMap().pgm, 'room.pgm').attach('metadata', roomMap().yaml, 'room.yaml');
+async function newDraft(c: Ctx) {
+  const { pgm, yaml } = roomMap();
+  return c.t.services.mapVersions.upload(operator(c), c.ids.ambergateSite, { kind: 'floor', label: '', image: { originalname: 'room.pgm', buffer: pgm }, metadataFile: { originalname: 'room.yaml', buffer: yaml } });
+}
+const mapPath = (c: Ctx, rest = '') => `/api/sites/${c.ids.ambergateSite}/map-versions${rest}`;
+const operatorOnly = (s: number): Record<Who, number> => ({ anon: 401, admin: s, mapper: s, site_manager: 403, viewer: 403 });
+let fixture: { mapVersionId: string; batchId: string };
 async function newRobot(c: Ctx) {
   return c.t.services.robots.create(operator(c), c.ids.ambergateSite, { name: `MX-${c.who}-${c.n}`, model: 'Matrix test', mounts: [] });
 }
@@ -58,6 +68,16 @@ const CASES: Case[] = [
     },
   },
   { route: 'GET /api/audit-events', expect: adminOnly(200) },
+  { route: 'GET /api/sites/:siteId/map-versions', expect: signedIn(200), prepare: (c) => ({ path: mapPath(c) }) },
+  { route: 'POST /api/sites/:siteId/map-versions', expect: operatorOnly(201), attach: mapFiles, prepare: (c) => ({ path: mapPath(c) }) },
+  { route: 'GET /api/sites/:siteId/map-versions/:versionId', expect: signedIn(200), prepare: (c) => ({ path: mapPath(c, `/${fixture.mapVersionId}`) }) },
+  { route: 'GET /api/sites/:siteId/map-versions/:versionId/preview.png', expect: signedIn(200), prepare: (c) => ({ path: mapPath(c, `/${fixture.mapVersionId}/preview.png`) }) },
+  { route: 'POST /api/sites/:siteId/map-versions/:versionId/activate', expect: operatorOnly(200), prepare: async (c) => ({ path: mapPath(c, `/${(await newDraft(c)).id}/activate`) }) },
+  { route: 'GET /api/sites/:siteId/scan-batches', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/scan-batches` }) },
+  { route: 'POST /api/sites/:siteId/scan-batches', expect: { ...operatorOnly(202) }, attach: (req) => req.attach('log', Buffer.from(scanLine({}) + '\n'), 'drive.jsonl'), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/scan-batches` }) },
+  { route: 'GET /api/sites/:siteId/scan-batches/:batchId', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/scan-batches/${fixture.batchId}` }) },
+  // Robots post with bearer tokens; a person's session is not enough.
+  { route: 'POST /api/ingest/scans', expect: all(401), body: () => scanLine({}) },
   // Last: it changes each role's password (the role's session stays open).
   {
     route: 'POST /api/auth/change-password',
@@ -75,6 +95,12 @@ describe('role matrix', () => {
     t = await createTestApp();
     ids = await demoIds(t.dataSource);
     for (const who of WHO) if (who !== 'anon') cookies.set(who, await signIn(t.app, demoAccount(who).email, demoAccount(who).password));
+    const ctx: Ctx = { t, ids, who: 'admin', n: -1 };
+    const map = await newDraft(ctx);
+    await t.services.mapVersions.activate(ids.admin, ids.ambergateSite, map.id);
+    const robot = await t.dataSource.getRepository(Robot).findOneByOrFail({ id: ids.ambergateRobot });
+    const { batch } = await t.services.ingest.ingestRobotBatch(robot, Buffer.from(scanLine({})), 'matrix');
+    fixture = { mapVersionId: map.id, batchId: batch.id };
   });
   afterAll(() => t.close());
 
@@ -95,6 +121,7 @@ describe('role matrix', () => {
         let req = request(t.app)[method.toLowerCase() as 'get'](prepared.path ?? path);
         const cookie = prepared.cookie !== undefined ? prepared.cookie : cookies.get(who);
         if (cookie) req = req.set('Cookie', cookie);
+        if (c.attach) req = c.attach(req);
         const body = c.body?.(ctx);
         const res = body === undefined ? await req : await req.send(body as object);
         got[who] = res.status;
@@ -102,4 +129,6 @@ describe('role matrix', () => {
       expect(got).toEqual(c.expect);
     });
   }
+
+  afterAll(() => Promise.all(t.services.ingest.pending));
 });

@@ -1,0 +1,70 @@
+import type { MigrationInterface, QueryRunner } from "typeorm";
+
+export class MapsAndEvidence1796171329162 implements MigrationInterface {
+    name = 'MapsAndEvidence1796171329162'
+
+    public async up(queryRunner: QueryRunner): Promise<void> {
+        await queryRunner.query(`CREATE TABLE "daily_stats" ("site_id" text NOT NULL, "robot_id" text NOT NULL, "scanner" text NOT NULL, "day" text NOT NULL, "map_version_id" text NOT NULL, "scans" integer NOT NULL DEFAULT (0), "beams" integer NOT NULL DEFAULT (0), "returns" integer NOT NULL DEFAULT (0), "out_of_map" integer NOT NULL DEFAULT (0), PRIMARY KEY ("site_id", "robot_id", "scanner", "day", "map_version_id"))`);
+        await queryRunner.query(`CREATE INDEX "IDX_1623301b98fcda0631e6e035ca" ON "daily_stats" ("site_id", "day") `);
+        await queryRunner.query(`CREATE TABLE "map_versions" ("id" text PRIMARY KEY NOT NULL, "site_id" text NOT NULL, "version" integer NOT NULL, "kind" text NOT NULL, "label" text NOT NULL DEFAULT (''), "resolution" real NOT NULL, "origin_x" real NOT NULL, "origin_y" real NOT NULL, "origin_yaw" real NOT NULL, "width" integer NOT NULL, "height" integer NOT NULL, "grid" blob NOT NULL, "occupied_cells" integer NOT NULL, "free_cells" integer NOT NULL, "unknown_cells" integer NOT NULL, "interpretation" text NOT NULL, "source_file_name" text NOT NULL, "source_checksum" text NOT NULL, "status" text NOT NULL DEFAULT ('draft'), "uploaded_by_id" text, "uploaded_at" datetime NOT NULL DEFAULT (datetime('now')), "activated_at" datetime, "activated_by_id" text)`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_d40b189590c7a827b53e1052aa" ON "map_versions" ("site_id", "kind", "version") `);
+        await queryRunner.query(`CREATE TABLE "evidence_chunks" ("map_version_id" text NOT NULL, "day" text NOT NULL, "cx" integer NOT NULL, "cy" integer NOT NULL, "data" blob NOT NULL, "updated_at" datetime NOT NULL, PRIMARY KEY ("map_version_id", "day", "cx", "cy"))`);
+        await queryRunner.query(`CREATE TABLE "scan_batches" ("id" text PRIMARY KEY NOT NULL, "site_id" text NOT NULL, "robot_id" text, "map_version_id" text NOT NULL, "source" text NOT NULL, "file_name" text, "idempotency_key" text, "content_hash" text, "status" text NOT NULL, "received_at" datetime NOT NULL, "finished_at" datetime, "bytes_read" integer NOT NULL DEFAULT (0), "bytes_total" integer, "lines" integer NOT NULL DEFAULT (0), "scans" integer NOT NULL DEFAULT (0), "beams" integer NOT NULL DEFAULT (0), "returns" integer NOT NULL DEFAULT (0), "out_of_map" integer NOT NULL DEFAULT (0), "rejected_count" integer NOT NULL DEFAULT (0), "rejected_lines" text NOT NULL, "days" text NOT NULL, "error" text)`);
+        await queryRunner.query(`CREATE INDEX "IDX_22763e995cba74e8d506f7a9cf" ON "scan_batches" ("site_id") `);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_74e157d784e52c4ac873b8537e" ON "scan_batches" ("site_id", "content_hash") WHERE status = 'counted'`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_facc95ab574ba04282bc15c8ff" ON "scan_batches" ("site_id", "idempotency_key") WHERE idempotency_key IS NOT NULL`);
+        await queryRunner.query(`DROP INDEX "IDX_d40b189590c7a827b53e1052aa"`);
+        await queryRunner.query(`CREATE TABLE "temporary_map_versions" ("id" text PRIMARY KEY NOT NULL, "site_id" text NOT NULL, "version" integer NOT NULL, "kind" text NOT NULL, "label" text NOT NULL DEFAULT (''), "resolution" real NOT NULL, "origin_x" real NOT NULL, "origin_y" real NOT NULL, "origin_yaw" real NOT NULL, "width" integer NOT NULL, "height" integer NOT NULL, "grid" blob NOT NULL, "occupied_cells" integer NOT NULL, "free_cells" integer NOT NULL, "unknown_cells" integer NOT NULL, "interpretation" text NOT NULL, "source_file_name" text NOT NULL, "source_checksum" text NOT NULL, "status" text NOT NULL DEFAULT ('draft'), "uploaded_by_id" text, "uploaded_at" datetime NOT NULL DEFAULT (datetime('now')), "activated_at" datetime, "activated_by_id" text, CONSTRAINT "FK_660bbb04c654544f320e0c6d0c4" FOREIGN KEY ("site_id") REFERENCES "sites" ("id") ON DELETE CASCADE ON UPDATE NO ACTION, CONSTRAINT "FK_516a101f1bbac19e6d034fee41d" FOREIGN KEY ("uploaded_by_id") REFERENCES "users" ("id") ON DELETE SET NULL ON UPDATE NO ACTION)`);
+        await queryRunner.query(`INSERT INTO "temporary_map_versions"("id", "site_id", "version", "kind", "label", "resolution", "origin_x", "origin_y", "origin_yaw", "width", "height", "grid", "occupied_cells", "free_cells", "unknown_cells", "interpretation", "source_file_name", "source_checksum", "status", "uploaded_by_id", "uploaded_at", "activated_at", "activated_by_id") SELECT "id", "site_id", "version", "kind", "label", "resolution", "origin_x", "origin_y", "origin_yaw", "width", "height", "grid", "occupied_cells", "free_cells", "unknown_cells", "interpretation", "source_file_name", "source_checksum", "status", "uploaded_by_id", "uploaded_at", "activated_at", "activated_by_id" FROM "map_versions"`);
+        await queryRunner.query(`DROP TABLE "map_versions"`);
+        await queryRunner.query(`ALTER TABLE "temporary_map_versions" RENAME TO "map_versions"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_d40b189590c7a827b53e1052aa" ON "map_versions" ("site_id", "kind", "version") `);
+        await queryRunner.query(`CREATE TABLE "temporary_evidence_chunks" ("map_version_id" text NOT NULL, "day" text NOT NULL, "cx" integer NOT NULL, "cy" integer NOT NULL, "data" blob NOT NULL, "updated_at" datetime NOT NULL, CONSTRAINT "FK_2d9606d45151927c251d4d2fb57" FOREIGN KEY ("map_version_id") REFERENCES "map_versions" ("id") ON DELETE CASCADE ON UPDATE NO ACTION, PRIMARY KEY ("map_version_id", "day", "cx", "cy"))`);
+        await queryRunner.query(`INSERT INTO "temporary_evidence_chunks"("map_version_id", "day", "cx", "cy", "data", "updated_at") SELECT "map_version_id", "day", "cx", "cy", "data", "updated_at" FROM "evidence_chunks"`);
+        await queryRunner.query(`DROP TABLE "evidence_chunks"`);
+        await queryRunner.query(`ALTER TABLE "temporary_evidence_chunks" RENAME TO "evidence_chunks"`);
+        await queryRunner.query(`DROP INDEX "IDX_22763e995cba74e8d506f7a9cf"`);
+        await queryRunner.query(`DROP INDEX "IDX_74e157d784e52c4ac873b8537e"`);
+        await queryRunner.query(`DROP INDEX "IDX_facc95ab574ba04282bc15c8ff"`);
+        await queryRunner.query(`CREATE TABLE "temporary_scan_batches" ("id" text PRIMARY KEY NOT NULL, "site_id" text NOT NULL, "robot_id" text, "map_version_id" text NOT NULL, "source" text NOT NULL, "file_name" text, "idempotency_key" text, "content_hash" text, "status" text NOT NULL, "received_at" datetime NOT NULL, "finished_at" datetime, "bytes_read" integer NOT NULL DEFAULT (0), "bytes_total" integer, "lines" integer NOT NULL DEFAULT (0), "scans" integer NOT NULL DEFAULT (0), "beams" integer NOT NULL DEFAULT (0), "returns" integer NOT NULL DEFAULT (0), "out_of_map" integer NOT NULL DEFAULT (0), "rejected_count" integer NOT NULL DEFAULT (0), "rejected_lines" text NOT NULL, "days" text NOT NULL, "error" text, CONSTRAINT "FK_22763e995cba74e8d506f7a9cfb" FOREIGN KEY ("site_id") REFERENCES "sites" ("id") ON DELETE CASCADE ON UPDATE NO ACTION, CONSTRAINT "FK_643e50b6e99109fe855004fd3a1" FOREIGN KEY ("map_version_id") REFERENCES "map_versions" ("id") ON DELETE CASCADE ON UPDATE NO ACTION)`);
+        await queryRunner.query(`INSERT INTO "temporary_scan_batches"("id", "site_id", "robot_id", "map_version_id", "source", "file_name", "idempotency_key", "content_hash", "status", "received_at", "finished_at", "bytes_read", "bytes_total", "lines", "scans", "beams", "returns", "out_of_map", "rejected_count", "rejected_lines", "days", "error") SELECT "id", "site_id", "robot_id", "map_version_id", "source", "file_name", "idempotency_key", "content_hash", "status", "received_at", "finished_at", "bytes_read", "bytes_total", "lines", "scans", "beams", "returns", "out_of_map", "rejected_count", "rejected_lines", "days", "error" FROM "scan_batches"`);
+        await queryRunner.query(`DROP TABLE "scan_batches"`);
+        await queryRunner.query(`ALTER TABLE "temporary_scan_batches" RENAME TO "scan_batches"`);
+        await queryRunner.query(`CREATE INDEX "IDX_22763e995cba74e8d506f7a9cf" ON "scan_batches" ("site_id") `);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_74e157d784e52c4ac873b8537e" ON "scan_batches" ("site_id", "content_hash") WHERE status = 'counted'`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_facc95ab574ba04282bc15c8ff" ON "scan_batches" ("site_id", "idempotency_key") WHERE idempotency_key IS NOT NULL`);
+    }
+
+    public async down(queryRunner: QueryRunner): Promise<void> {
+        await queryRunner.query(`DROP INDEX "IDX_facc95ab574ba04282bc15c8ff"`);
+        await queryRunner.query(`DROP INDEX "IDX_74e157d784e52c4ac873b8537e"`);
+        await queryRunner.query(`DROP INDEX "IDX_22763e995cba74e8d506f7a9cf"`);
+        await queryRunner.query(`ALTER TABLE "scan_batches" RENAME TO "temporary_scan_batches"`);
+        await queryRunner.query(`CREATE TABLE "scan_batches" ("id" text PRIMARY KEY NOT NULL, "site_id" text NOT NULL, "robot_id" text, "map_version_id" text NOT NULL, "source" text NOT NULL, "file_name" text, "idempotency_key" text, "content_hash" text, "status" text NOT NULL, "received_at" datetime NOT NULL, "finished_at" datetime, "bytes_read" integer NOT NULL DEFAULT (0), "bytes_total" integer, "lines" integer NOT NULL DEFAULT (0), "scans" integer NOT NULL DEFAULT (0), "beams" integer NOT NULL DEFAULT (0), "returns" integer NOT NULL DEFAULT (0), "out_of_map" integer NOT NULL DEFAULT (0), "rejected_count" integer NOT NULL DEFAULT (0), "rejected_lines" text NOT NULL, "days" text NOT NULL, "error" text)`);
+        await queryRunner.query(`INSERT INTO "scan_batches"("id", "site_id", "robot_id", "map_version_id", "source", "file_name", "idempotency_key", "content_hash", "status", "received_at", "finished_at", "bytes_read", "bytes_total", "lines", "scans", "beams", "returns", "out_of_map", "rejected_count", "rejected_lines", "days", "error") SELECT "id", "site_id", "robot_id", "map_version_id", "source", "file_name", "idempotency_key", "content_hash", "status", "received_at", "finished_at", "bytes_read", "bytes_total", "lines", "scans", "beams", "returns", "out_of_map", "rejected_count", "rejected_lines", "days", "error" FROM "temporary_scan_batches"`);
+        await queryRunner.query(`DROP TABLE "temporary_scan_batches"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_facc95ab574ba04282bc15c8ff" ON "scan_batches" ("site_id", "idempotency_key") WHERE idempotency_key IS NOT NULL`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_74e157d784e52c4ac873b8537e" ON "scan_batches" ("site_id", "content_hash") WHERE status = 'counted'`);
+        await queryRunner.query(`CREATE INDEX "IDX_22763e995cba74e8d506f7a9cf" ON "scan_batches" ("site_id") `);
+        await queryRunner.query(`ALTER TABLE "evidence_chunks" RENAME TO "temporary_evidence_chunks"`);
+        await queryRunner.query(`CREATE TABLE "evidence_chunks" ("map_version_id" text NOT NULL, "day" text NOT NULL, "cx" integer NOT NULL, "cy" integer NOT NULL, "data" blob NOT NULL, "updated_at" datetime NOT NULL, PRIMARY KEY ("map_version_id", "day", "cx", "cy"))`);
+        await queryRunner.query(`INSERT INTO "evidence_chunks"("map_version_id", "day", "cx", "cy", "data", "updated_at") SELECT "map_version_id", "day", "cx", "cy", "data", "updated_at" FROM "temporary_evidence_chunks"`);
+        await queryRunner.query(`DROP TABLE "temporary_evidence_chunks"`);
+        await queryRunner.query(`DROP INDEX "IDX_d40b189590c7a827b53e1052aa"`);
+        await queryRunner.query(`ALTER TABLE "map_versions" RENAME TO "temporary_map_versions"`);
+        await queryRunner.query(`CREATE TABLE "map_versions" ("id" text PRIMARY KEY NOT NULL, "site_id" text NOT NULL, "version" integer NOT NULL, "kind" text NOT NULL, "label" text NOT NULL DEFAULT (''), "resolution" real NOT NULL, "origin_x" real NOT NULL, "origin_y" real NOT NULL, "origin_yaw" real NOT NULL, "width" integer NOT NULL, "height" integer NOT NULL, "grid" blob NOT NULL, "occupied_cells" integer NOT NULL, "free_cells" integer NOT NULL, "unknown_cells" integer NOT NULL, "interpretation" text NOT NULL, "source_file_name" text NOT NULL, "source_checksum" text NOT NULL, "status" text NOT NULL DEFAULT ('draft'), "uploaded_by_id" text, "uploaded_at" datetime NOT NULL DEFAULT (datetime('now')), "activated_at" datetime, "activated_by_id" text)`);
+        await queryRunner.query(`INSERT INTO "map_versions"("id", "site_id", "version", "kind", "label", "resolution", "origin_x", "origin_y", "origin_yaw", "width", "height", "grid", "occupied_cells", "free_cells", "unknown_cells", "interpretation", "source_file_name", "source_checksum", "status", "uploaded_by_id", "uploaded_at", "activated_at", "activated_by_id") SELECT "id", "site_id", "version", "kind", "label", "resolution", "origin_x", "origin_y", "origin_yaw", "width", "height", "grid", "occupied_cells", "free_cells", "unknown_cells", "interpretation", "source_file_name", "source_checksum", "status", "uploaded_by_id", "uploaded_at", "activated_at", "activated_by_id" FROM "temporary_map_versions"`);
+        await queryRunner.query(`DROP TABLE "temporary_map_versions"`);
+        await queryRunner.query(`CREATE UNIQUE INDEX "IDX_d40b189590c7a827b53e1052aa" ON "map_versions" ("site_id", "kind", "version") `);
+        await queryRunner.query(`DROP INDEX "IDX_facc95ab574ba04282bc15c8ff"`);
+        await queryRunner.query(`DROP INDEX "IDX_74e157d784e52c4ac873b8537e"`);
+        await queryRunner.query(`DROP INDEX "IDX_22763e995cba74e8d506f7a9cf"`);
+        await queryRunner.query(`DROP TABLE "scan_batches"`);
+        await queryRunner.query(`DROP TABLE "evidence_chunks"`);
+        await queryRunner.query(`DROP INDEX "IDX_d40b189590c7a827b53e1052aa"`);
+        await queryRunner.query(`DROP TABLE "map_versions"`);
+        await queryRunner.query(`DROP INDEX "IDX_1623301b98fcda0631e6e035ca"`);
+        await queryRunner.query(`DROP TABLE "daily_stats"`);
+    }
+
+}

@@ -1,0 +1,205 @@
+import { createHash } from 'node:crypto';
+import { PNG } from 'pngjs';
+import { Not, type DataSource } from 'typeorm';
+import { GridFormatError } from '../../shared/grid/errors.js';
+import { imageToGrid, type GreyImage } from '../../shared/grid/image-to-grid.js';
+import { checkImageName, parseMapMetadata } from '../../shared/grid/map-metadata.js';
+import { parsePgm } from '../../shared/grid/pgm.js';
+import { renderGridImage } from '../../shared/render/grid-image.js';
+import { CellState, type MapMetadata, type OccupancyGrid } from '../../shared/types/grid.js';
+import type { Actor } from '../auth/actor.js';
+import { MapVersion } from '../entities/index.js';
+import type { MapKind } from '../entities/map-version.entity.js';
+import { badRequest, conflict, HttpError, notFound } from '../http-error.js';
+import type { AuditService } from './audit.service.js';
+import { decodeGrid, encodeGrid, encodePng } from './grid-codec.js';
+import { newId } from './ids.js';
+import type { SitesService } from './sites.service.js';
+
+/** An uploaded file as the route hands it over. */
+export interface UploadedFile {
+  originalname: string;
+  buffer: Buffer;
+}
+
+/** Metadata typed into the form for a PNG (or a PGM without YAML). */
+export type FormMetadata = Omit<MapMetadata, 'image'>;
+
+/** Resolution bounds per kind, metres per cell: floors are centimetre-range, stations millimetre-range (common practice). */
+export const RESOLUTION_BOUNDS: Record<MapKind, [number, number]> = { floor: [0.01, 0.5], station: [0.0005, 0.01] };
+
+const PNG_MAGIC = Buffer.from([0x89, 0x50, 0x4e, 0x47]);
+const GRID_CACHE_SIZE = 6;
+
+function readImage(file: UploadedFile): GreyImage {
+  const bytes = file.buffer;
+  if (bytes.subarray(0, 4).equals(PNG_MAGIC)) {
+    let png: PNG;
+    try {
+      png = PNG.sync.read(bytes);
+    } catch (e) {
+      throw new GridFormatError(`The PNG image could not be read (${e instanceof Error ? e.message : 'damaged file'}).`);
+    }
+    // Maps are grey; a coloured PNG is read by its luminance (ITU-R BT.601 weights).
+    const pixels = new Uint8Array(png.width * png.height);
+    for (let k = 0; k < pixels.length; k++) {
+      const o = k * 4;
+      pixels[k] = Math.round(0.299 * png.data[o] + 0.587 * png.data[o + 1] + 0.114 * png.data[o + 2]);
+    }
+    return { width: png.width, height: png.height, maxval: 255, pixels };
+  }
+  if (bytes[0] === 0x50 && (bytes[1] === 0x35 || bytes[1] === 0x32)) return parsePgm(bytes);
+  throw new GridFormatError(`The image "${file.originalname}" is neither a PGM (P2/P5) nor a PNG file.`);
+}
+
+/** Map versions of a site: upload as draft, preview, activate. */
+export class MapVersionsService {
+  private readonly grids = new Map<string, OccupancyGrid>();
+
+  constructor(
+    private readonly db: DataSource,
+    private readonly sites: SitesService,
+    private readonly audit: AuditService,
+  ) {}
+
+  /** Parses and validates an uploaded map and stores it as a draft; nothing is stored when any part is bad. */
+  async upload(actor: Actor, siteId: string, input: { kind: MapKind; label: string; image: UploadedFile; metadataFile?: UploadedFile; form?: FormMetadata }) {
+    const site = await this.sites.getVisible(actor, siteId);
+    let meta: MapMetadata;
+    let grid: OccupancyGrid;
+    try {
+      if (input.metadataFile) {
+        meta = parseMapMetadata(input.metadataFile.buffer.toString('utf8'));
+        checkImageName(meta, input.image.originalname);
+      } else if (input.form) {
+        meta = { image: input.image.originalname, ...input.form };
+      } else {
+        throw new GridFormatError('Give the map metadata: a YAML file, or resolution and origin typed into the form.');
+      }
+      const [lo, hi] = RESOLUTION_BOUNDS[input.kind];
+      if (meta.resolution < lo || meta.resolution > hi) {
+        throw new GridFormatError(`A ${input.kind === 'floor' ? 'floor map' : 'station model'} needs a resolution between ${lo} and ${hi} m per cell; this one says ${meta.resolution}.`);
+      }
+      grid = imageToGrid(readImage(input.image), meta);
+    } catch (e) {
+      if (e instanceof GridFormatError) throw new HttpError(422, 'invalid_map', e.message);
+      throw e;
+    }
+    let occupied = 0;
+    let free = 0;
+    for (let k = 0; k < grid.cells.length; k++) {
+      if (grid.cells[k] === CellState.Occupied) occupied++;
+      else if (grid.cells[k] === CellState.Free) free++;
+    }
+    if (occupied === 0) throw new HttpError(422, 'invalid_map', 'The map holds no occupied cell: check negate and the thresholds.');
+    const blob = encodeGrid(grid);
+    const id = newId();
+    await this.db.transaction(async (m) => {
+      const last = await m.getRepository(MapVersion).findOne({ where: { siteId: site.id, kind: input.kind }, order: { version: 'DESC' }, select: { id: true, version: true } });
+      const version = (last?.version ?? 0) + 1;
+      await m.insert(MapVersion, {
+        id,
+        siteId: site.id,
+        version,
+        kind: input.kind,
+        label: input.label,
+        resolution: meta.resolution,
+        originX: meta.origin[0],
+        originY: meta.origin[1],
+        originYaw: meta.origin[2],
+        width: grid.width,
+        height: grid.height,
+        grid: blob,
+        occupiedCells: occupied,
+        freeCells: free,
+        unknownCells: grid.cells.length - occupied - free,
+        interpretation: { negate: meta.negate, occupiedThresh: meta.occupiedThresh, freeThresh: meta.freeThresh, mode: meta.mode },
+        sourceFileName: input.image.originalname,
+        sourceChecksum: createHash('sha256').update(input.image.buffer).digest('hex'),
+        status: 'draft',
+        uploadedById: actor.id,
+      });
+      await this.audit.record(actor, { action: 'map.upload', targetType: 'map_version', targetId: id, organizationId: site.organizationId, summary: `${actor.name} uploaded ${input.kind} map version ${version} of ${site.name} (${grid.width} × ${grid.height} cells at ${meta.resolution} m).` }, m);
+    });
+    return this.get(actor, site.id, id);
+  }
+
+  /** Map versions of a visible site, newest first. */
+  async list(actor: Actor, siteId: string, kind?: MapKind) {
+    const site = await this.sites.getVisible(actor, siteId);
+    const rows = await this.db.getRepository(MapVersion).find({ where: { siteId: site.id, ...(kind ? { kind } : {}) }, relations: { uploadedBy: true }, order: { kind: 'ASC', version: 'DESC' } });
+    return rows.map(view);
+  }
+
+  /** One map version of a visible site. */
+  async get(actor: Actor, siteId: string, id: string) {
+    return view(await this.find(actor, siteId, id));
+  }
+
+  private async find(actor: Actor, siteId: string, id: string) {
+    const site = await this.sites.getVisible(actor, siteId);
+    const row = await this.db.getRepository(MapVersion).findOne({ where: { id, siteId: site.id }, relations: { uploadedBy: true } });
+    if (!row) throw notFound('The map version');
+    return row;
+  }
+
+  /** The decoded grid of a map version (cached: a few recent versions stay in memory). */
+  async grid(version: MapVersion): Promise<OccupancyGrid> {
+    const cached = this.grids.get(version.id);
+    if (cached) return cached;
+    const { grid: blob } = await this.db.getRepository(MapVersion).findOneOrFail({ where: { id: version.id }, select: { id: true, grid: true } });
+    const grid = decodeGrid(version, blob);
+    if (this.grids.size >= GRID_CACHE_SIZE) this.grids.delete(this.grids.keys().next().value!);
+    this.grids.set(version.id, grid);
+    return grid;
+  }
+
+  /** A PNG preview of a map version in the map palette, longer side at most `maxSide` pixels. */
+  async preview(actor: Actor, siteId: string, id: string, maxSide: number): Promise<Buffer> {
+    const version = await this.find(actor, siteId, id);
+    return encodePng(renderGridImage(await this.grid(version), maxSide));
+  }
+
+  /** The site's active floor map version, or null. */
+  async activeFloor(siteId: string): Promise<MapVersion | null> {
+    return this.db.getRepository(MapVersion).findOneBy({ siteId, kind: 'floor', status: 'active' });
+  }
+
+  /** Makes a floor version the site's active one; the previous active one is archived. Evidence counts against it from now on. */
+  async activate(actor: Actor, siteId: string, id: string) {
+    const version = await this.find(actor, siteId, id);
+    if (version.kind !== 'floor') throw badRequest('Only floor maps are activated; station models are used as uploaded.');
+    if (version.status === 'active') throw conflict(`Version ${version.version} is already the active map.`);
+    const site = await this.sites.getVisible(actor, siteId);
+    await this.db.transaction(async (m) => {
+      await m.update(MapVersion, { siteId: site.id, kind: 'floor', status: 'active', id: Not(version.id) }, { status: 'archived' });
+      await m.update(MapVersion, version.id, { status: 'active', activatedAt: new Date(), activatedById: actor.id });
+      await this.audit.record(actor, { action: 'map.activate', targetType: 'map_version', targetId: version.id, organizationId: site.organizationId, summary: `${actor.name} activated floor map version ${version.version} of ${site.name}.` }, m);
+    });
+    return this.get(actor, siteId, id);
+  }
+}
+
+function view(v: MapVersion) {
+  return {
+    id: v.id,
+    siteId: v.siteId,
+    version: v.version,
+    kind: v.kind,
+    label: v.label,
+    status: v.status,
+    resolution: v.resolution,
+    origin: { x: v.originX, y: v.originY, yaw: v.originYaw },
+    width: v.width,
+    height: v.height,
+    widthM: +(v.width * v.resolution).toFixed(3),
+    heightM: +(v.height * v.resolution).toFixed(3),
+    cells: { occupied: v.occupiedCells, free: v.freeCells, unknown: v.unknownCells },
+    interpretation: v.interpretation,
+    sourceFileName: v.sourceFileName,
+    sourceChecksum: v.sourceChecksum,
+    uploadedBy: v.uploadedBy ? { id: v.uploadedBy.id, name: v.uploadedBy.name } : null,
+    uploadedAt: v.uploadedAt.toISOString(),
+    activatedAt: v.activatedAt?.toISOString() ?? null,
+  };
+}

@@ -92,11 +92,22 @@ export const DriftlinePreset = definePreset(Aura, {
     },
   },
   components: {
+    message: {
+      colorScheme: {
+        light: {
+          warn: { background: '#fdf3e2', borderColor: '#efcf9c', color: '#6f3d03', shadow: 'none' },
+          error: { background: '#fcf0ee', borderColor: '#ebc3be', color: '#8c2a23', shadow: 'none' },
+          success: { background: '#eaf6f3', borderColor: '#a9d8cf', color: '#0f5f55', shadow: 'none' },
+          info: { background: '#eef1f6', borderColor: '#c6cedb', color: '#1e2a3f', shadow: 'none' },
+        },
+      },
+    },
     datatable: {
       colorScheme: {
         light: {
           header: { background: '#fffdf8' },
-          headerCell: { background: '#f1ede2', color: palette.ink },
+          headerCell: { background: '#f1ede2', color: palette.ink, selectedBackground: '#f1ede2', selectedColor: palette.ink },
+          sortIcon: { color: '#586274', hoverColor: palette.ink },
           row: { background: '#fffdf8', stripedBackground: '#faf7f0' },
         },
       },

@@ -57,4 +57,22 @@ export const tests = [
       await screenshot('admin-audit.png');
     },
   },
+  {
+    name: "when an admin filters the overview by customer and text, then only the matching sites remain",
+    async run({ page, baseUrl, screenshot }) {
+      await signIn(page, baseUrl, accounts.admin);
+      await page.getByRole('heading', { level: 1, name: 'All sites' }).waitFor();
+      const rows = page.getByRole('table', { name: 'Sites' }).locator('tbody tr');
+      await expectText(page, 'Lowen Harbour Hub');
+      assert((await rows.count()) === 5, `expected all 5 demo sites, found ${await rows.count()}`);
+      await page.getByRole('combobox', { name: 'Filter by customer' }).click();
+      await page.getByRole('option', { name: 'Corvane Parts & Supply' }).click();
+      await expectText(page, '3 of 5 sites');
+      assert((await page.getByText('Fennick Cross DC').count()) === 0, 'an Ambergate site is still listed under the Corvane filter');
+      await page.getByRole('searchbox', { name: 'Search sites' }).or(page.getByLabel('Search sites')).first().fill('brindle');
+      await expectText(page, '1 of 5 sites');
+      await expectText(page, 'Brindle Ford Crossdock');
+      await screenshot('fleet-operator.png');
+    },
+  },
 ];

@@ -1,4 +1,4 @@
-import { accounts, assert, expectText } from './helpers.mjs';
+import { accounts, assert, expectText, signIn } from './helpers.mjs';
 
 export const tests = [
   {
@@ -27,6 +27,17 @@ export const tests = [
       await page.getByRole('button', { name: 'Sign in' }).click();
       await page.getByRole('heading', { name: 'Change password' }).waitFor();
       assert(new URL(page.url()).pathname === '/account', `expected /account, got ${page.url()}`);
+    },
+  },
+  {
+    name: 'when the session ends on the server, then the next request leads to the sign-in page with the way back',
+    async run({ page, context, baseUrl }) {
+      await signIn(page, baseUrl, accounts.siteManager);
+      await context.clearCookies();
+      await page.getByRole('link', { name: 'Fennick Cross DC' }).click();
+      await page.waitForURL(/\/sign-in\?next=/);
+      const next = new URL(page.url()).searchParams.get('next') ?? '';
+      assert(next.startsWith('/sites/'), `expected next to point at the site, got “${next}”`);
     },
   },
 ];

@@ -27,6 +27,7 @@ export const tests = [
       await signIn(page, baseUrl, accounts.siteManager);
       await page.getByRole('radio', { name: /Cards/ }).or(page.getByRole('button', { name: /Cards/ })).first().click();
       await page.getByRole('list', { name: 'Sites' }).waitFor();
+      await screenshot('fleet-cards.png');
       await page.getByRole('link', { name: 'Fennick Cross DC' }).click();
       await page.getByRole('heading', { level: 1, name: 'Fennick Cross DC' }).waitFor();
       await expectText(page, 'It does not certify that a site, a map or a robot is safe');
@@ -61,6 +62,20 @@ export const tests = [
       await page.getByRole('alertdialog').or(page.getByRole('dialog')).getByRole('button', { name: 'Revoke token' }).click();
       await expectText(page, 'Token revoked');
       await screenshot('site-robots.png');
+    },
+  },
+  {
+    name: 'when loading the sites fails, then the overview says so and “Try again” loads them',
+    async run({ page, baseUrl, screenshot }) {
+      await signIn(page, baseUrl, accounts.siteManager);
+      // Answer the next sites request the way a failing server would, then let requests through again.
+      await page.route('**/api/sites', (route) => route.fulfill({ status: 503, contentType: 'application/json', body: JSON.stringify({ error: { code: 'unavailable', message: 'The database is busy; please try again.' } }) }), { times: 1 });
+      await page.reload();
+      await expectText(page, 'The sites could not be loaded');
+      await expectText(page, 'The database is busy; please try again.');
+      await screenshot('fleet-error.png');
+      await page.getByRole('button', { name: 'Try again' }).click();
+      await expectText(page, 'Fennick Cross DC');
     },
   },
 ];

@@ -7,7 +7,7 @@ import {
   sampleDistanceGradient,
   squaredDistanceTransform,
 } from '../../../../shared/grid/distance-transform.js';
-import { randomMask } from '../stats/seeded-random.js';
+import { randomMask } from '../detect/random-mask.js';
 
 // Loaded through Node's own require: importing @techstark/opencv-js@4.5.2 through vitest's module
 // runner spins for minutes on its 10 MB script, while Node's loader takes well under a second.

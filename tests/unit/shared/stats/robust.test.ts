@@ -1,13 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import jStat from 'jstat';
 import { mad, median, robustZScore, robustZScores } from '../../../../shared/stats/robust.js';
-import { seededNormal } from './seeded-random.js';
+import { createRng } from '../../../../shared/sim/random.js';
 
 describe('robust statistics', () => {
   it('when taking medians of odd, even and random lists, then they equal jstat’s median', () => {
     // Arrange
-    const normal = seededNormal(7);
-    const lists = [[5], [3, 1, 2], [4, 1, 3, 2], [10, -2, 7.5, 7.5, 0, 1e6], Array.from({ length: 501 }, () => normal())];
+    const rng = createRng(7);
+    const lists = [[5], [3, 1, 2], [4, 1, 3, 2], [10, -2, 7.5, 7.5, 0, 1e6], Array.from({ length: 501 }, () => rng.normal())];
     for (const list of lists) {
       // Act + Assert. Reference: jstat@1.9.6, jStat.median.
       expect(median(list)).toBeCloseTo(jStat.median(list), 12);
@@ -24,8 +24,8 @@ describe('robust statistics', () => {
 
   it('when data are normal, then the scaled MAD estimates the standard deviation', () => {
     // Arrange: σ = 3; the 1.4826 factor makes the MAD consistent for σ (Rousseeuw & Croux 1993).
-    const normal = seededNormal(99);
-    const values = Array.from({ length: 20000 }, () => 3 * normal() + 10);
+    const rng = createRng(99);
+    const values = Array.from({ length: 20000 }, () => 3 * rng.normal() + 10);
     // Act
     const scale = mad(values);
     // Assert: sampling error of the MAD at n = 20 000 is about 1.1 % of σ.

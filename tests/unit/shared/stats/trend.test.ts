@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { fitTrend, thresholdCrossing, trendValue } from '../../../../shared/stats/trend.js';
-import { seededNormal } from './seeded-random.js';
+import { createRng } from '../../../../shared/sim/random.js';
 
 /** Ordinary least squares by the closed form b = Sxy / Sxx, a = ȳ − b x̄, SE(b) = √(s² / Sxx),
  *  SE(a) = √(s² (1/n + x̄² / Sxx)) (Draper & Smith, "Applied Regression Analysis", 3rd ed. 1998, ch. 1; from memory). */
@@ -24,12 +24,12 @@ function closedFormOls(x: number[], y: number[]) {
 
 /** Six weeks of a synthetic daily health score: 98 − 0.12 per day plus N(0, σ) noise (invented demo data). */
 function syntheticSeries(seed: number, sigma: number, firstDay = 0) {
-  const normal = seededNormal(seed);
+  const rng = createRng(seed);
   const days: number[] = [];
   const values: number[] = [];
   for (let d = 0; d < 42; d++) {
     days.push(firstDay + d);
-    values.push(98 - 0.12 * d + sigma * normal());
+    values.push(98 - 0.12 * d + sigma * rng.normal());
   }
   return { days, values };
 }
@@ -113,9 +113,9 @@ describe('robust daily trend', () => {
 
   it('when the series is flat noise, then the crossing range is unbounded', () => {
     // Arrange
-    const normal = seededNormal(23);
+    const rng = createRng(23);
     const days = Array.from({ length: 30 }, (_, d) => d);
-    const values = days.map(() => 96 + 0.5 * normal());
+    const values = days.map(() => 96 + 0.5 * rng.normal());
     // Act
     const crossing = thresholdCrossing(fitTrend(days, values), 90);
     // Assert

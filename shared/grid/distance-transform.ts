@@ -66,7 +66,7 @@ function transform1D(f: Float64Array, n: number, d: Float64Array, v: Int32Array,
  * wider than ~4096 cells) are not exact in float32. Memory: 8 bytes per cell.
  */
 export function squaredDistanceTransform(mask: Uint8Array, width: number, height: number): Float64Array {
-  checkSize(mask.length, width, height);
+  checkMaskSize(mask, width, height);
   const out = new Float64Array(width * height);
   const n = Math.max(width, height);
   const f = new Float64Array(n);
@@ -146,7 +146,9 @@ export function sampleDistance(field: DistanceField, x: number, y: number): numb
   return sampleDistanceGradient(field, x, y, out) ? out[0] : Number.NaN;
 }
 
-function checkSize(length: number, width: number, height: number): void {
+/** Throws a RangeError unless the grid size is positive whole cells and the mask holds width × height cells. */
+export function checkMaskSize(mask: ArrayLike<number>, width: number, height: number): void {
+  const length = mask.length;
   if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1) {
     throw new RangeError(`Grid size must be positive whole numbers of cells, got ${width} × ${height}.`);
   }

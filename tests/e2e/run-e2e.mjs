@@ -52,7 +52,7 @@ function freePort() {
 
 function startServer(port, dataDir) {
   const entry = path.join(root, 'dist', 'node', 'server', 'index.js');
-  if (!existsSync(entry)) fail(`The build did not produce ${path.relative(root, entry)}.`);
+  if (!existsSync(entry)) throw new Error(`The build did not produce ${path.relative(root, entry)}.`);
   // Detached: the server leads its own process group, so everything it starts is stopped with it.
   const child = spawn(process.execPath, [entry], {
     cwd: root,
@@ -84,10 +84,12 @@ async function stopServer(server) {
   }
 }
 
+// Throws rather than exiting, so that the caller still stops the server and removes the temporary folders.
 async function waitForHealth(baseUrl, server) {
-  const deadline = Date.now() + 30_000;
+  // Generous: the first start creates the database, runs migrations and hashes the demo passwords, on a shared machine.
+  const deadline = Date.now() + 120_000;
   while (Date.now() < deadline) {
-    if (server.child.exitCode !== null) fail(`The server stopped before it was ready:\n${server.output.join('')}`);
+    if (server.child.exitCode !== null) throw new Error(`The server stopped before it was ready:\n${server.output.join('')}`);
     try {
       const response = await fetch(`${baseUrl}/api/health`);
       if (response.ok) return;
@@ -96,7 +98,7 @@ async function waitForHealth(baseUrl, server) {
     }
     await new Promise((resolve) => setTimeout(resolve, 250));
   }
-  fail(`The server did not answer GET /api/health within 30 s:\n${server.output.join('')}`);
+  throw new Error(`The server did not answer GET /api/health within 120 s:\n${server.output.join('')}`);
 }
 
 async function loadTests() {
@@ -106,7 +108,7 @@ async function loadTests() {
     const module = await import(pathToFileURL(path.join(here, file)).href);
     for (const test of module.tests ?? []) tests.push({ ...test, file });
   }
-  if (tests.length === 0) fail('No browser tests found (tests/e2e/*.e2e.mjs export `tests`).');
+  if (tests.length === 0) throw new Error('No browser tests found (tests/e2e/*.e2e.mjs export `tests`).');
   return tests;
 }
 
@@ -173,7 +175,6 @@ async function main() {
   } catch (error) {
     failed++;
     console.log(`  ✗ browser test setup\n      ${error instanceof Error ? error.message : String(error)}`);
-    if (server) console.log(server.output.join(''));
   } finally {
     await cleanUp();
   }

@@ -5,7 +5,7 @@ import pino from 'pino';
 import { createApp } from './app.js';
 import { loadConfig } from './config.js';
 import { openDatabase } from './data-source.js';
-import { seedDemo } from './services/demo-seed.service.js';
+import { DEMO_DAYS, demoEvidencePending, seedDemoAccounts, seedDemoEvidence } from './services/demo-seed.service.js';
 
 // Entry point: config → data source → app → listen; graceful stop on SIGTERM/SIGINT.
 async function main() {
@@ -13,10 +13,9 @@ async function main() {
   const log = pino({ level: config.logLevel, ...(config.env === 'development' ? { transport: { target: 'pino-pretty' } } : {}) });
   mkdirSync(config.dataDir, { recursive: true });
   const dataSource = await openDatabase({ database: config.databasePath });
-  if (config.seedDemo) await seedDemo(dataSource, log);
-
   const { app, services } = createApp({ config, dataSource, log });
   await services.ingest.failInterrupted();
+  if (config.seedDemo) await seedDemoAccounts(dataSource, log);
   const server: Server = app.listen(config.port, config.host, () => {
     const address = server.address();
     const port = typeof address === 'object' && address ? address.port : config.port;
@@ -24,6 +23,16 @@ async function main() {
     // Plain line too, for people and scripts reading the console.
     console.log(`Driftline listening on http://${config.host}:${port}`);
   });
+
+  // The demo's weeks of simulated scans take a while to count: serve meanwhile, report progress
+  // on /api/health, and pick up where a restart left off.
+  if (config.seedDemo && (await demoEvidencePending(dataSource))) {
+    log.info('loading the demo scenario’s maps and simulated scans in the background');
+    seedDemoEvidence(dataSource, services, log, new Date(), DEMO_DAYS, services.demoSeed).catch((err) => {
+      services.demoSeed.state = 'failed';
+      log.error({ err }, 'the demo evidence could not be loaded');
+    });
+  }
 
   let stopping = false;
   const stop = (signal: string) => {

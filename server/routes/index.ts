@@ -23,7 +23,7 @@ export interface RouteEntry {
 /** The route table: every API router and where it is mounted. */
 export function routeTable(services: Services, config: Config, db: DataSource, version: string): RouteEntry[] {
   return [
-    { path: '/health', router: healthRoutes(db, version) },
+    { path: '/health', router: healthRoutes(db, version, services.demoSeed) },
     { path: '/auth', router: authRoutes(services, config) },
     { path: '/invitations', router: invitationsRoutes(services) },
     { path: '/users', router: usersRoutes(services) },

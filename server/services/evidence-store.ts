@@ -51,7 +51,7 @@ export class EvidenceStore {
             added.passes[k] = Math.min(added.passes[k] + old.passes[k], UINT32_MAX);
           }
         }
-        upsert.run(mapVersionId, c.day, c.cx, c.cy, deflateRawSync(encodeChunkCounters(added.hits, added.passes)), now);
+        upsert.run(mapVersionId, c.day, c.cx, c.cy, deflateRawSync(encodeChunkCounters(added.hits, added.passes), { level: 1 }), now);
       }
       for (const s of stats) addStat.run(siteId, s.robotId, s.scanner, s.day, mapVersionId, s.scans, s.beams, s.returns, s.outOfMap);
       return true;

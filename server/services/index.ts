@@ -3,6 +3,7 @@ import type { DataSource } from 'typeorm';
 import type { Sessions } from '../auth/sessions.js';
 import type { Config } from '../config.js';
 import { AuditService } from './audit.service.js';
+import { DemoSeedProgress } from './demo-seed.service.js';
 import { IngestService } from './ingest.service.js';
 import { InvitationsService } from './invitations.service.js';
 import { MapVersionsService } from './map-versions.service.js';
@@ -17,6 +18,7 @@ export function createServices(db: DataSource, config: Config, sessions: Session
   const sites = new SitesService(db, audit);
   const mapVersions = new MapVersionsService(db, sites, audit);
   return {
+    demoSeed: new DemoSeedProgress(),
     mapVersions,
     ingest: new IngestService(db, sites, mapVersions, log),
     audit,

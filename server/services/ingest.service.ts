@@ -122,6 +122,30 @@ export class IngestService {
     return { status: 'counted' as const, batch: batchView(await this.db.getRepository(ScanBatch).findOneByOrFail({ id })) };
   }
 
+  /**
+   * Counts recorded scan lines (the demo seed, the command line) against the site's active floor
+   * map as one batch of source 'upload'; returns its figures. Same policy as uploads.
+   */
+  async countLines(site: Site, lines: Iterable<string>, fileName: string, now = new Date()) {
+    const { version, grid } = await this.activeMap(site);
+    const acc = new ScanAccumulator({ grid, timezone: site.timezone, robotsByName: await this.robotsByName(site.id), now, ...tracingSettings(site) });
+    const hash = createHash('sha256');
+    let lineNo = 0;
+    for (const line of lines) {
+      hash.update(line).update('\n');
+      acc.addLine(++lineNo, line);
+    }
+    const { chunks, stats } = acc.finish();
+    const id = newId();
+    const contentHash = hash.digest('hex');
+    const counted = await this.store.commit(version.id, site.id, chunks, stats, (raw) => {
+      if (this.findReplay(raw, site.id, null, contentHash)) return false;
+      this.insertBatch(raw, { id, siteId: site.id, robotId: null, mapVersionId: version.id, source: 'upload', fileName, idempotencyKey: null, hash: contentHash, receivedAt: now, figures: acc.figures });
+      return true;
+    });
+    return { counted, figures: acc.figures };
+  }
+
   private async replayAnswer(replayed: { id: string; hash: string }, hash: string) {
     if (replayed.hash !== hash) throw conflict('This Idempotency-Key was already used for a batch with different content; use a new key for new scans.');
     return { status: 'already_received' as const, batch: batchView(await this.db.getRepository(ScanBatch).findOneByOrFail({ id: replayed.id })) };

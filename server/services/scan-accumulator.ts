@@ -137,7 +137,7 @@ export class ScanAccumulator {
     const counters = this.resident.get(day)!;
     this.resident.delete(day);
     for (const c of splitIntoChunks(this.ctx.grid.width, this.ctx.grid.height, counters.hits, counters.passes)) {
-      this.packed.push({ day, cx: c.cx, cy: c.cy, data: deflateRawSync(encodeChunkCounters(c.hits, c.passes)) });
+      this.packed.push({ day, cx: c.cx, cy: c.cy, data: deflateRawSync(encodeChunkCounters(c.hits, c.passes), { level: 1 }) });
     }
   }
 }

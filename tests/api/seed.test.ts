@@ -1,26 +1,36 @@
 import pino from 'pino';
 import { describe, expect, it } from 'vitest';
+import { createApp } from '../../server/app.js';
+import { testConfig } from '../../server/config.js';
 import { openDatabase } from '../../server/data-source.js';
-import { Organization, Site, User } from '../../server/entities/index.js';
+import { MapVersion, Organization, Robot, ScanBatch, Site, User } from '../../server/entities/index.js';
 import { seedDemo } from '../../server/services/demo-seed.service.js';
 
+const log = pino({ level: 'silent' });
+
 describe('demo seed', () => {
-  it('when seeding twice, then the second run changes nothing', async () => {
+  it('when seeding an empty database, then every site gets an active map, its simulated robots and days of counted scans; a second run changes nothing', async () => {
     const db = await openDatabase({ database: ':memory:' });
-    const log = pino({ level: 'silent' });
-    expect(await seedDemo(db, log)).toBe(true);
-    const counts = async () => [await db.getRepository(Organization).count(), await db.getRepository(User).count(), await db.getRepository(Site).count()];
+    const { services } = createApp({ config: testConfig(), dataSource: db, log });
+    expect(await seedDemo(db, services, log, { days: 2, today: new Date('2026-11-20T12:00:00Z') })).toBe(true);
+    const counts = async () => [await db.getRepository(Organization).count(), await db.getRepository(User).count(), await db.getRepository(Site).count(), await db.getRepository(ScanBatch).count()];
     const first = await counts();
-    expect(await seedDemo(db, log)).toBe(false);
+    expect(first).toEqual([3, 5, 5, 10]);
+    expect(await db.getRepository(MapVersion).countBy({ status: 'active', kind: 'floor' })).toBe(5);
+    const batches = await db.getRepository(ScanBatch).find();
+    expect(batches.every((b) => b.status === 'counted' && b.rejectedCount === 0 && b.scans > 0)).toBe(true);
+    expect(new Set(batches.flatMap((b) => b.days))).toContain('2026-11-19');
+    const fennick = await db.getRepository(Site).findOneByOrFail({ name: 'Fennick Cross DC' });
+    expect((await db.getRepository(Robot).findBy({ siteId: fennick.id })).map((r) => r.name).sort()).toEqual(['AMR-01', 'AMR-02', 'AMR-03', 'AMR-04']);
+    expect(await seedDemo(db, services, log)).toBe(false);
     expect(await counts()).toEqual(first);
-    expect(first).toEqual([3, 5, 5]);
     await db.destroy();
   });
 
   it('when the database already has an organization of its own, then the seed leaves it alone', async () => {
     const db = await openDatabase({ database: ':memory:' });
     await db.getRepository(Organization).insert({ id: '11111111-1111-4111-8111-111111111111', name: 'Existing Operator', kind: 'operator', timezone: 'UTC' });
-    expect(await seedDemo(db, pino({ level: 'silent' }))).toBe(false);
+    expect(await seedDemo(db, null, log)).toBe(false);
     expect(await db.getRepository(User).count()).toBe(0);
     await db.destroy();
   });

@@ -6,7 +6,7 @@ import { createApp, type AppBundle } from '../../../server/app.js';
 import { testConfig, type Config } from '../../../server/config.js';
 import { openDatabase } from '../../../server/data-source.js';
 import { Organization, Robot, Site, User } from '../../../server/entities/index.js';
-import { DEMO_ACCOUNTS, seedDemo } from '../../../server/services/demo-seed.service.js';
+import { DEMO_ACCOUNTS, seedDemoAccounts } from '../../../server/services/demo-seed.service.js';
 
 /** A fresh app over a fresh in-memory database that ran every migration. */
 export interface TestApp extends AppBundle {
@@ -15,12 +15,12 @@ export interface TestApp extends AppBundle {
   close(): Promise<void>;
 }
 
-/** Creates the app on an empty in-memory SQLite database; seeds the demo scenario unless told not to. */
+/** Creates the app on an empty in-memory SQLite database; seeds the demo accounts and sites (no evidence) unless told not to. */
 export async function createTestApp({ seed = true, config = {} as Partial<Config> } = {}): Promise<TestApp> {
   const cfg = testConfig(config);
   const dataSource = await openDatabase({ database: ':memory:' });
   const log = pino({ level: 'silent' });
-  if (seed) await seedDemo(dataSource, log);
+  if (seed) await seedDemoAccounts(dataSource, log);
   const bundle = createApp({ config: cfg, dataSource, log });
   return { ...bundle, dataSource, config: cfg, close: () => dataSource.destroy() };
 }

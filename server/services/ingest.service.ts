@@ -131,9 +131,16 @@ export class IngestService {
     const acc = new ScanAccumulator({ grid, timezone: site.timezone, robotsByName: await this.robotsByName(site.id), now, ...tracingSettings(site) });
     const hash = createHash('sha256');
     let lineNo = 0;
+    let lastYield = Date.now();
     for (const line of lines) {
       hash.update(line).update('\n');
       acc.addLine(++lineNo, line);
+      // Database calls here resolve at once, so without this the event loop would starve and
+      // the server could not answer requests while a long recording is counted.
+      if (Date.now() - lastYield > 50) {
+        await new Promise((resolve) => setImmediate(resolve));
+        lastYield = Date.now();
+      }
     }
     const { chunks, stats } = acc.finish();
     const id = newId();

@@ -1,11 +1,10 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { createRequire } from 'node:module';
 import { closing, dilate, erode, type ElementShape } from '../../../../shared/detect/morphology.js';
+import { loadOpenCv } from './opencv.js';
 import { randomMask } from './random-mask.js';
 
-// Node's own require: vitest's module runner spins on @techstark/opencv-js's 10 MB script.
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
-const cv: any = createRequire(import.meta.url)('@techstark/opencv-js');
+let cv: any;
 
 /**
  * Brute force of the definitions (Serra, "Image Analysis and Mathematical Morphology", 1982; from memory):
@@ -37,10 +36,7 @@ function bruteMorph(mask: Uint8Array, width: number, height: number, radius: num
 
 describe('binary morphology', () => {
   beforeAll(async () => {
-    // @techstark/opencv-js@4.5.2 compiles its WebAssembly after loading and calls this hook when ready.
-    await new Promise<void>((resolve) => {
-      cv.onRuntimeInitialized = () => resolve();
-    });
+    cv = await loadOpenCv();
   });
 
   it('when random masks are dilated and eroded by squares and discs, then results equal the brute-force definition', () => {

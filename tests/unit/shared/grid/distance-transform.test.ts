@@ -1,5 +1,4 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { createRequire } from 'node:module';
 import {
   distanceTransform,
   distancesInMetres,
@@ -7,12 +6,11 @@ import {
   sampleDistanceGradient,
   squaredDistanceTransform,
 } from '../../../../shared/grid/distance-transform.js';
+import { loadOpenCv } from '../detect/opencv.js';
 import { randomMask } from '../detect/random-mask.js';
 
-// Loaded through Node's own require: importing @techstark/opencv-js@4.5.2 through vitest's module
-// runner spins for minutes on its 10 MB script, while Node's loader takes well under a second.
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
-const cv: any = createRequire(import.meta.url)('@techstark/opencv-js');
+let cv: any;
 
 /** Brute force of the definition D(p) = min over features q of |p − q|² (Felzenszwalb & Huttenlocher 2012, §1). */
 function bruteSquared(mask: Uint8Array, width: number, height: number): Float64Array {
@@ -34,10 +32,7 @@ function bruteSquared(mask: Uint8Array, width: number, height: number): Float64A
 
 describe('distance transform', () => {
   beforeAll(async () => {
-    // @techstark/opencv-js@4.5.2 compiles its WebAssembly after import; it calls this hook when ready.
-    await new Promise<void>((resolve) => {
-      cv.onRuntimeInitialized = () => resolve();
-    });
+    cv = await loadOpenCv();
   });
 
   it('when two features sit in opposite corners of a 4 × 3 grid, then squared distances match the hand-computed table', () => {

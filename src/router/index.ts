@@ -47,6 +47,20 @@ export const routes: RouteRecordRaw[] = [
         props: true,
         meta: { title: 'Robots' },
       },
+      {
+        path: 'maps',
+        name: 'site-maps',
+        component: () => import('@/views/SiteMapVersionsView.vue'),
+        props: true,
+        meta: { title: 'Map versions' },
+      },
+      {
+        path: 'scans',
+        name: 'site-scans',
+        component: () => import('@/views/SiteScanLogsView.vue'),
+        props: true,
+        meta: { title: 'Scan logs' },
+      },
     ],
   },
   {

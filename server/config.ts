@@ -17,6 +17,7 @@ const envSchema = z.object({
   DRIFTLINE_BASE_URL: z.url().optional(),
   DRIFTLINE_SESSION_SECRET: z.string().min(32).optional(),
   DRIFTLINE_SEED_DEMO: bool.default(true),
+  DRIFTLINE_DEMO_EVIDENCE: bool.default(true),
   DRIFTLINE_TRUST_PROXY: bool.default(false),
   DRIFTLINE_WEB_DIR: z.string().optional(),
   DRIFTLINE_SMTP_HOST: z.string().optional(),
@@ -41,6 +42,8 @@ export interface Config {
   /** Secret for signed links (unsubscribe, password reset): from the environment or a file in the data directory. */
   sessionSecret: string;
   seedDemo: boolean;
+  /** With seedDemo: also load the demo's simulated maps and weeks of scans (in the background). */
+  seedDemoEvidence: boolean;
   trustProxy: boolean;
   webDir: string;
   smtp: { host: string | null; port: number; secure: boolean; user?: string; password?: string; from: string };
@@ -68,6 +71,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     secureCookies: baseUrl.startsWith('https://'),
     sessionSecret: e.DRIFTLINE_SESSION_SECRET ?? readOrCreateSecret(dataDir),
     seedDemo: e.DRIFTLINE_SEED_DEMO,
+    seedDemoEvidence: e.DRIFTLINE_DEMO_EVIDENCE,
     trustProxy: e.DRIFTLINE_TRUST_PROXY,
     webDir: path.resolve(e.DRIFTLINE_WEB_DIR ?? 'dist/web'),
     smtp: {
@@ -95,6 +99,7 @@ export function testConfig(overrides: Partial<Config> = {}): Config {
     secureCookies: false,
     sessionSecret: 'test-secret-test-secret-test-secret-0123',
     seedDemo: false,
+    seedDemoEvidence: false,
     trustProxy: false,
     webDir: path.resolve('dist/web'),
     smtp: { host: null, port: 2525, secure: false, from: 'Driftline <driftline@localhost>' },

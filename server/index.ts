@@ -26,7 +26,7 @@ async function main() {
 
   // The demo's weeks of simulated scans take a while to count: serve meanwhile, report progress
   // on /api/health, and pick up where a restart left off.
-  if (config.seedDemo && (await demoEvidencePending(dataSource))) {
+  if (config.seedDemo && config.seedDemoEvidence && (await demoEvidencePending(dataSource))) {
     log.info('loading the demo scenario’s maps and simulated scans in the background');
     seedDemoEvidence(dataSource, services, log, new Date(), DEMO_DAYS, services.demoSeed).catch((err) => {
       services.demoSeed.state = 'failed';

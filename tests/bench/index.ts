@@ -2,9 +2,11 @@
 // its figures; append new benches to the list.
 import { run as traverse } from './traverse.bench.js';
 import { run as simulate } from './simulate.bench.js';
+import { run as ingest } from './ingest.bench.js';
 
 const benches: [string, () => Promise<void>][] = [['traverse', traverse]];
 benches.push(['simulate', simulate]);
+benches.push(['ingest', ingest]);
 
 for (const [name, run] of benches) {
   console.log(`\n== ${name} ==`);

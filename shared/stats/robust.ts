@@ -8,6 +8,28 @@
 /** Factor that makes the MAD a consistent estimate of the normal standard deviation (dimensionless). */
 export const MAD_NORMAL_CONSISTENCY = 1.4826;
 
+/**
+ * Huber's tuning constant for 95 % efficiency at the normal distribution, in units of the residual
+ * scale (Holland & Welsch, "Robust regression using iteratively reweighted least-squares", 1977; from memory).
+ */
+export const HUBER_K = 1.345;
+
+/** Tukey biweight tuning constant for 95 % efficiency at the normal distribution, in residual-scale units (Beaton & Tukey 1974; from memory). */
+export const TUKEY_C = 4.685;
+
+/** IRLS weight in [0, 1] of Huber's loss for a residual u in scale units: 1 inside ±k, k / |u| beyond. */
+export function huberWeight(u: number, k: number = HUBER_K): number {
+  const a = Math.abs(u);
+  return a <= k ? 1 : k / a;
+}
+
+/** IRLS weight in [0, 1] of Tukey's biweight for a residual u in scale units: (1 − (u/c)²)² inside ±c, 0 beyond. */
+export function tukeyWeight(u: number, c: number = TUKEY_C): number {
+  const t = u / c;
+  // Beyond c the weight is exactly 0: such returns leave the fit entirely.
+  return Math.abs(t) >= 1 ? 0 : (1 - t * t) * (1 - t * t);
+}
+
 /** Median of the values (same unit as the values); the mean of the two middle values for an even count. */
 export function median(values: ArrayLike<number>): number {
   const sorted = sortedCopy(values);

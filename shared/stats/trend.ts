@@ -7,14 +7,8 @@
  * interval (Fieller, "Some problems in interval estimation", JRSS B 16, 1954).
  */
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
-import { mad } from './robust.js';
+import { HUBER_K, huberWeight, mad } from './robust.js';
 import { Z_95 } from './wilson.js';
-
-/**
- * Huber's tuning constant for 95 % efficiency at the normal distribution, in units of the residual
- * scale (Holland & Welsch 1977, from memory).
- */
-export const HUBER_K = 1.345;
 
 /** Options of `fitTrend`: `loss` 'huber' (default) or 'squared' (ordinary least squares). */
 export interface TrendOptions {
@@ -97,10 +91,7 @@ export function fitTrend(days: ArrayLike<number>, values: ArrayLike<number>, opt
       converged = true;
       break;
     }
-    for (let i = 0; i < n; i++) {
-      const r = Math.abs(residuals[i]);
-      weights[i] = r <= k * scale ? 1 : (k * scale) / r;
-    }
+    for (let i = 0; i < n; i++) weights[i] = huberWeight(residuals[i] / scale, k);
     const next = solveWeighted(t, values, weights);
     const moved = Math.max(
       Math.abs(next.a - solution.a) / (1 + Math.abs(solution.a)),

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import jStat from 'jstat';
-import { mad, median, robustZScore, robustZScores } from '../../../../shared/stats/robust.js';
+import { huberWeight, mad, median, robustZScore, robustZScores, tukeyWeight } from '../../../../shared/stats/robust.js';
 import { createRng } from '../../../../shared/sim/random.js';
 
 describe('robust statistics', () => {
@@ -60,5 +60,16 @@ describe('robust statistics', () => {
   it('when the list is empty or holds NaN, then a RangeError says so', () => {
     expect(() => median([])).toThrow(/empty/);
     expect(() => mad([1, Number.NaN])).toThrow(/finite/);
+  });
+
+  it('when weighting residuals, then Huber and Tukey weights follow their defining formulas', () => {
+    // Sources: Huber 1964 (ψ(u) = clip(u, ±k), so w = min(1, k/|u|)); Beaton & Tukey 1974 biweight
+    // w = (1 − (u/c)²)² for |u| < c, else 0. Constants 1.345 and 4.685 from memory (95 % efficiency).
+    expect(huberWeight(0.5)).toBe(1);
+    expect(huberWeight(-2.69)).toBeCloseTo(0.5, 12);
+    expect(tukeyWeight(0)).toBe(1);
+    expect(tukeyWeight(4.685 / 2)).toBeCloseTo(0.5625, 12);
+    expect(tukeyWeight(-4.685)).toBe(0);
+    expect(tukeyWeight(10)).toBe(0);
   });
 });

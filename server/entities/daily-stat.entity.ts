@@ -28,6 +28,10 @@ export class DailyStat {
   @Column({ type: 'integer', default: 0 })
   returns: number;
 
+  /** Returns within the tolerance of mapped structure (DESIGN.md §4.3). */
+  @Column({ type: 'integer', default: 0 })
+  explained: number;
+
   @Column({ type: 'integer', name: 'out_of_map', default: 0 })
   outOfMap: number;
 }

@@ -1,7 +1,7 @@
 import { Column, Entity, JoinColumn, ManyToOne, PrimaryColumn, type Relation } from 'typeorm';
 import { MapVersion } from './map-version.entity.js';
 
-/** Hit and pass counters of one 128 × 128-cell chunk of a map version on one site-local day. */
+/** Hit and pass counters of one 128 × 128-cell chunk of a map version, from one robot on one site-local day. */
 @Entity({ name: 'evidence_chunks' })
 export class EvidenceChunk {
   @PrimaryColumn({ type: 'text', name: 'map_version_id' })
@@ -14,6 +14,10 @@ export class EvidenceChunk {
   /** Site-local day, YYYY-MM-DD. */
   @PrimaryColumn({ type: 'text' })
   day: string;
+
+  /** Kept per robot so that a robot whose scanner is suspect can be left out of change detection. */
+  @PrimaryColumn({ type: 'text', name: 'robot_id' })
+  robotId: string;
 
   /** Chunk column and row (chunk (cx, cy) covers cells i ∈ [128·cx, 128·cx + 128), j likewise). */
   @PrimaryColumn({ type: 'integer' })

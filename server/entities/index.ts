@@ -1,3 +1,4 @@
+import { AgreementBlocks } from './agreement-blocks.entity.js';
 import { AuditEvent } from './audit-event.entity.js';
 import { DailyStat } from './daily-stat.entity.js';
 import { EvidenceChunk } from './evidence-chunk.entity.js';
@@ -11,7 +12,7 @@ import { Session } from './session.entity.js';
 import { Site } from './site.entity.js';
 import { User } from './user.entity.js';
 
-export { AuditEvent, DailyStat, EvidenceChunk, Invitation, MapVersion, Organization, Robot, RobotToken, ScanBatch, Session, Site, User };
+export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, Invitation, MapVersion, Organization, Robot, RobotToken, ScanBatch, Session, Site, User };
 
 /** Every entity class, passed to the DataSource as classes (not globs). */
-export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat];
+export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks];

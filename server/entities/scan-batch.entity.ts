@@ -80,6 +80,9 @@ export class ScanBatch {
   @Column({ type: 'integer', default: 0 })
   returns: number;
 
+  @Column({ type: 'integer', default: 0 })
+  explained: number;
+
   @Column({ type: 'integer', name: 'out_of_map', default: 0 })
   outOfMap: number;
 

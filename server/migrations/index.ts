@@ -1,5 +1,5 @@
 import { Foundation1796170942239 } from './1796170942239-Foundation.js';
-import { MapsAndEvidence1796171329162 } from './1796171329162-MapsAndEvidence.js';
+import { MapsAndEvidence1796172603219 } from './1796172603219-MapsAndEvidence.js';
 
 /** Every migration class in order; new ones are appended here. */
-export const migrations: Function[] = [Foundation1796170942239, MapsAndEvidence1796171329162];
+export const migrations: Function[] = [Foundation1796170942239, MapsAndEvidence1796172603219];

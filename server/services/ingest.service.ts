@@ -8,13 +8,15 @@ import type { Database } from 'better-sqlite3';
 import type { Logger } from 'pino';
 import type { DataSource } from 'typeorm';
 import type { Actor } from '../auth/actor.js';
-import { Robot, ScanBatch, Site } from '../entities/index.js';
+import type { OccupancyGrid } from '../../shared/types/grid.js';
+import { MapVersion, Robot, ScanBatch, Site } from '../entities/index.js';
 import type { BatchSource } from '../entities/scan-batch.entity.js';
 import { conflict, HttpError, notFound } from '../http-error.js';
 import { EvidenceStore, rawHandle, sqliteDatetime } from './evidence-store.js';
 import { newId } from './ids.js';
 import type { MapVersionsService } from './map-versions.service.js';
 import { ScanAccumulator } from './scan-accumulator.js';
+import { siteSettings } from './site-settings.js';
 import type { SitesService } from './sites.service.js';
 
 /** Largest decompressed robot batch, bytes: guards against gzip bombs (product choice). */
@@ -43,6 +45,8 @@ function batchView(b: ScanBatch) {
     scans: b.scans,
     beams: b.beams,
     returns: b.returns,
+    explained: b.explained,
+    agreement: b.returns > 0 ? b.explained / b.returns : null,
     outOfMap: b.outOfMap,
     rejectedCount: b.rejectedCount,
     rejectedLines: b.rejectedLines,
@@ -51,12 +55,6 @@ function batchView(b: ScanBatch) {
   };
 }
 export type BatchView = ReturnType<typeof batchView>;
-
-/** Site settings that shape tracing, with their defaults (DESIGN.md §4.2). */
-function tracingSettings(site: Site) {
-  const s = site.settings as { countNoReturnAsPass?: boolean; maxNoReturnTraceM?: number };
-  return { countNoReturnAsPass: s.countNoReturnAsPass === true, maxNoReturnTraceM: s.maxNoReturnTraceM };
-}
 
 /**
  * Scan ingest: robot batches and uploaded logs become evidence. Policy: good lines are counted,
@@ -81,6 +79,33 @@ export class IngestService {
     return { version, grid: await this.mapVersions.grid(version) };
   }
 
+  /** A fresh accumulator for a batch counted against the site's active map version. */
+  private async accumulator(site: Site, map: { version: MapVersion; grid: OccupancyGrid }, opts: { robotsByName?: Map<string, Robot>; expectedRobot?: string; now: Date; spillFile?: string }) {
+    const settings = siteSettings(site);
+    const res = map.grid.resolution;
+    return new ScanAccumulator({
+      grid: map.grid,
+      agreement: {
+        distance: (await this.mapVersions.distanceField(map.version)).values,
+        toleranceCells: settings.agreementToleranceM / res,
+        blockCells: Math.max(1, Math.round(settings.agreementBlockM / res)),
+      },
+      timezone: site.timezone,
+      robotsByName: opts.robotsByName ?? (await this.robotsByName(site.id)),
+      expectedRobot: opts.expectedRobot,
+      countNoReturnAsPass: settings.countNoReturnAsPass,
+      maxNoReturnTraceM: settings.maxNoReturnTraceM,
+      now: opts.now,
+      spillFile: opts.spillFile,
+    });
+  }
+
+  private commitAccumulated(version: MapVersion, site: Site, acc: ScanAccumulator, guard: (raw: Database) => boolean) {
+    const { stats, blocks } = acc.finish();
+    const blockCells = Math.max(1, Math.round(siteSettings(site).agreementBlockM / version.resolution));
+    return this.store.commit(version.id, site.id, { chunks: acc.spill.chunks(), stats, blocks, blockCells }, guard).finally(() => acc.spill.close());
+  }
+
   private async robotsByName(siteId: string) {
     const robots = await this.db.getRepository(Robot).findBy({ siteId });
     return new Map(robots.map((r) => [r.name, r]));
@@ -100,18 +125,19 @@ export class IngestService {
     const replayed = this.findReplay(rawHandle(this.db), site.id, idempotencyKey, hash);
     if (replayed) return this.replayAnswer(replayed, hash);
 
-    const { version, grid } = await this.activeMap(site);
-    const acc = new ScanAccumulator({ grid, timezone: site.timezone, robotsByName: new Map([[robot.name, robot]]), expectedRobot: robot.name, now, ...tracingSettings(site) });
+    const map = await this.activeMap(site);
+    const { version } = map;
+    const acc = await this.accumulator(site, map, { robotsByName: new Map([[robot.name, robot]]), expectedRobot: robot.name, now });
     const lines = text.toString('utf8').split('\n');
     for (let k = 0; k < lines.length; k++) acc.addLine(k + 1, lines[k].replace(/\r$/, ''));
-    const { chunks, stats } = acc.finish();
     const f = acc.figures;
     if (f.scans === 0) {
+      acc.spill.close();
       throw new HttpError(422, 'no_valid_scans', f.lines === 0 ? 'The batch holds no scan lines.' : `None of the batch's ${f.lines} lines could be counted; nothing was stored.`, { rejectedCount: f.rejectedCount, rejectedLines: f.rejectedLines });
     }
     const id = newId();
     let replay: { id: string; hash: string } | undefined;
-    await this.store.commit(version.id, site.id, chunks, stats, (raw) => {
+    await this.commitAccumulated(version, site, acc, (raw) => {
       // Checked again inside the transaction: two copies posted at once count once.
       replay = this.findReplay(raw, site.id, idempotencyKey, hash);
       if (replay) return false;
@@ -127,8 +153,9 @@ export class IngestService {
    * map as one batch of source 'upload'; returns its figures. Same policy as uploads.
    */
   async countLines(site: Site, lines: Iterable<string>, fileName: string, now = new Date()) {
-    const { version, grid } = await this.activeMap(site);
-    const acc = new ScanAccumulator({ grid, timezone: site.timezone, robotsByName: await this.robotsByName(site.id), now, ...tracingSettings(site) });
+    const map = await this.activeMap(site);
+    const { version } = map;
+    const acc = await this.accumulator(site, map, { now });
     const hash = createHash('sha256');
     let lineNo = 0;
     let lastYield = Date.now();
@@ -142,10 +169,9 @@ export class IngestService {
         lastYield = Date.now();
       }
     }
-    const { chunks, stats } = acc.finish();
     const id = newId();
     const contentHash = hash.digest('hex');
-    const counted = await this.store.commit(version.id, site.id, chunks, stats, (raw) => {
+    const counted = await this.commitAccumulated(version, site, acc, (raw) => {
       if (this.findReplay(raw, site.id, null, contentHash)) return false;
       this.insertBatch(raw, { id, siteId: site.id, robotId: null, mapVersionId: version.id, source: 'upload', fileName, idempotencyKey: null, hash: contentHash, receivedAt: now, figures: acc.figures });
       return true;
@@ -175,10 +201,10 @@ export class IngestService {
     const f = b.figures;
     raw
       .prepare(
-        'INSERT INTO scan_batches (id, site_id, robot_id, map_version_id, source, file_name, idempotency_key, content_hash, status, received_at, finished_at, bytes_read, bytes_total, lines, scans, beams, returns, out_of_map, rejected_count, rejected_lines, days, error) ' +
-          "VALUES (?, ?, ?, ?, ?, ?, ?, ?, 'counted', ?, ?, 0, NULL, ?, ?, ?, ?, ?, ?, ?, ?, NULL)",
+        'INSERT INTO scan_batches (id, site_id, robot_id, map_version_id, source, file_name, idempotency_key, content_hash, status, received_at, finished_at, bytes_read, bytes_total, lines, scans, beams, returns, explained, out_of_map, rejected_count, rejected_lines, days, error) ' +
+          "VALUES (?, ?, ?, ?, ?, ?, ?, ?, 'counted', ?, ?, 0, NULL, ?, ?, ?, ?, ?, ?, ?, ?, ?, NULL)",
       )
-      .run(b.id, b.siteId, b.robotId, b.mapVersionId, b.source, b.fileName, b.idempotencyKey, b.hash, sqliteDatetime(b.receivedAt), sqliteDatetime(new Date()), f.lines, f.scans, f.beams, f.returns, f.outOfMap, f.rejectedCount, JSON.stringify(f.rejectedLines), JSON.stringify(f.days));
+      .run(b.id, b.siteId, b.robotId, b.mapVersionId, b.source, b.fileName, b.idempotencyKey, b.hash, sqliteDatetime(b.receivedAt), sqliteDatetime(new Date()), f.lines, f.scans, f.beams, f.returns, f.explained, f.outOfMap, f.rejectedCount, JSON.stringify(f.rejectedLines), JSON.stringify(f.days));
   }
 
   /**
@@ -196,7 +222,7 @@ export class IngestService {
       await rm(file.path, { force: true });
       throw e;
     }
-    const { version, grid } = map;
+    const { version } = map;
     const size = (await stat(file.path)).size;
     const batch = this.db.getRepository(ScanBatch).create({
       id: newId(),
@@ -215,8 +241,8 @@ export class IngestService {
       days: [],
     });
     await this.db.getRepository(ScanBatch).save(batch);
-    const robotsByName = await this.robotsByName(site.id);
-    const done = this.processUpload(batch, file.path, new ScanAccumulator({ grid, timezone: site.timezone, robotsByName, now: new Date(), ...tracingSettings(site) }))
+    const acc = await this.accumulator(site, map, { now: new Date(), spillFile: `${file.path}.chunks` });
+    const done = this.processUpload(batch, site, version, file.path, acc)
       .catch(async (e) => {
         this.log.error({ err: e, batch: batch.id }, 'scan log processing failed');
         await this.db.getRepository(ScanBatch).update(batch.id, { status: 'failed', error: 'The log could not be read to the end; nothing was counted.', finishedAt: new Date() });
@@ -230,7 +256,7 @@ export class IngestService {
   /** Uploads still being processed; tests and shutdown wait on them. */
   readonly pending = new Set<Promise<unknown>>();
 
-  private async processUpload(batch: ScanBatch, path: string, acc: ScanAccumulator) {
+  private async processUpload(batch: ScanBatch, site: Site, version: MapVersion, path: string, acc: ScanAccumulator) {
     const repo = this.db.getRepository(ScanBatch);
     const hash = createHash('sha256');
     let bytesRead = 0;
@@ -271,28 +297,29 @@ export class IngestService {
     }
     readError ??= await piped;
     if (readError) {
+      acc.spill.close();
       const tooLarge = readError instanceof HttpError;
       await repo.update(batch.id, { status: 'failed', bytesRead, error: tooLarge ? (readError as HttpError).message : 'The file is damaged (it could not be unpacked to the end); nothing was counted.', finishedAt: new Date() });
       return;
     }
-    const { chunks, stats } = acc.finish();
     const f = acc.figures;
     const contentHash = hash.digest('hex');
-    const figures = { bytesRead, lines: f.lines, scans: f.scans, beams: f.beams, returns: f.returns, outOfMap: f.outOfMap, rejectedCount: f.rejectedCount, rejectedLines: f.rejectedLines, days: f.days };
+    const figures = { bytesRead, lines: f.lines, scans: f.scans, beams: f.beams, returns: f.returns, explained: f.explained, outOfMap: f.outOfMap, rejectedCount: f.rejectedCount, rejectedLines: f.rejectedLines, days: f.days };
     if (f.scans === 0) {
+      acc.spill.close();
       await repo.update(batch.id, { ...figures, status: 'rejected', error: f.lines === 0 ? 'The file holds no scan lines.' : 'No line of the file could be counted; nothing was stored.', finishedAt: new Date() });
       return;
     }
     let duplicateOf: string | null = null;
-    await this.store.commit(batch.mapVersionId, batch.siteId, chunks, stats, (raw) => {
+    await this.commitAccumulated(version, site, acc, (raw) => {
       const replay = this.findReplay(raw, batch.siteId, null, contentHash);
       if (replay) {
         duplicateOf = replay.id;
         return false;
       }
       raw
-        .prepare("UPDATE scan_batches SET status = 'counted', content_hash = ?, bytes_read = ?, lines = ?, scans = ?, beams = ?, returns = ?, out_of_map = ?, rejected_count = ?, rejected_lines = ?, days = ?, finished_at = ? WHERE id = ?")
-        .run(contentHash, bytesRead, f.lines, f.scans, f.beams, f.returns, f.outOfMap, f.rejectedCount, JSON.stringify(f.rejectedLines), JSON.stringify(f.days), sqliteDatetime(new Date()), batch.id);
+        .prepare("UPDATE scan_batches SET status = 'counted', content_hash = ?, bytes_read = ?, lines = ?, scans = ?, beams = ?, returns = ?, explained = ?, out_of_map = ?, rejected_count = ?, rejected_lines = ?, days = ?, finished_at = ? WHERE id = ?")
+        .run(contentHash, bytesRead, f.lines, f.scans, f.beams, f.returns, f.explained, f.outOfMap, f.rejectedCount, JSON.stringify(f.rejectedLines), JSON.stringify(f.days), sqliteDatetime(new Date()), batch.id);
       return true;
     });
     if (duplicateOf) {

@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto';
 import { PNG } from 'pngjs';
 import { Not, type DataSource } from 'typeorm';
+import { distanceTransform, type DistanceField } from '../../shared/grid/distance-transform.js';
 import { GridFormatError } from '../../shared/grid/errors.js';
 import { imageToGrid, type GreyImage } from '../../shared/grid/image-to-grid.js';
 import { checkImageName, parseMapMetadata } from '../../shared/grid/map-metadata.js';
@@ -55,6 +56,7 @@ function readImage(file: UploadedFile): GreyImage {
 /** Map versions of a site: upload as draft, preview, activate. */
 export class MapVersionsService {
   private readonly grids = new Map<string, OccupancyGrid>();
+  private readonly fields = new Map<string, DistanceField>();
 
   constructor(
     private readonly db: DataSource,
@@ -152,6 +154,19 @@ export class MapVersionsService {
     if (this.grids.size >= GRID_CACHE_SIZE) this.grids.delete(this.grids.keys().next().value!);
     this.grids.set(version.id, grid);
     return grid;
+  }
+
+  /** Distance from each cell to the nearest mapped occupied cell, in cells (exact EDT; cached per version). */
+  async distanceField(version: MapVersion): Promise<DistanceField> {
+    const cached = this.fields.get(version.id);
+    if (cached) return cached;
+    const grid = await this.grid(version);
+    const mask = new Uint8Array(grid.cells.length);
+    for (let k = 0; k < mask.length; k++) mask[k] = grid.cells[k] === CellState.Occupied ? 1 : 0;
+    const field = distanceTransform(mask, grid.width, grid.height);
+    if (this.fields.size >= GRID_CACHE_SIZE) this.fields.delete(this.fields.keys().next().value!);
+    this.fields.set(version.id, field);
+    return field;
   }
 
   /** A PNG preview of a map version in the map palette, longer side at most `maxSide` pixels. */

@@ -1,24 +1,18 @@
 import { deflateRawSync } from 'node:zlib';
 import { DateTime } from 'luxon';
+import { encodeChunkCounters, splitIntoChunks } from '../../shared/evidence/chunks.js';
+import { frameU, frameV, makeGridFrame } from '../../shared/grid/transform.js';
 import { accumulateScan, createCounters, type EvidenceCounters } from '../../shared/scan/accumulate.js';
 import { parseScanLine } from '../../shared/scan/scan-record.js';
-import { encodeChunkCounters, splitIntoChunks } from '../../shared/evidence/chunks.js';
 import type { OccupancyGrid } from '../../shared/types/grid.js';
-import type { RejectedLine } from '../entities/scan-batch.entity.js';
 import type { Robot } from '../entities/index.js';
+import type { RejectedLine } from '../entities/scan-batch.entity.js';
+import { ChunkSpill } from './chunk-spill.js';
 
 /** Most refused lines kept with their reasons per batch; the count covers all. */
 export const MAX_REJECTED_KEPT = 200;
-/** Days of full-size counters held at once; older days are packed into compressed chunks. */
-const RESIDENT_DAYS = 2;
-
-/** Chunk counters ready to be added to the store: deflated encodeChunkCounters bytes. */
-export interface PendingChunk {
-  day: string;
-  cx: number;
-  cy: number;
-  data: Buffer;
-}
+/** Memory for full-size counters of (robot, day) pairs in flight; older pairs are packed (product choice). */
+const RESIDENT_BUDGET_BYTES = 160 * 1024 * 1024;
 
 /** Per robot, scanner and day: what one batch added. */
 export interface PendingStat {
@@ -28,7 +22,16 @@ export interface PendingStat {
   scans: number;
   beams: number;
   returns: number;
+  explained: number;
   outOfMap: number;
+}
+
+/** Per robot and day: returns and explained returns per agreement block (row-major from the bottom). */
+export interface PendingBlocks {
+  robotId: string;
+  day: string;
+  /** returns of block b at [b], explained returns at [blockCount + b]. */
+  counts: Uint32Array;
 }
 
 /** Batch totals as the receipt shows them. */
@@ -37,15 +40,27 @@ export interface BatchFigures {
   scans: number;
   beams: number;
   returns: number;
+  explained: number;
   outOfMap: number;
   rejectedCount: number;
   rejectedLines: RejectedLine[];
   days: string[];
 }
 
+/** How returns are judged: the map's distance field and the tolerances (site settings). */
+export interface AgreementSetup {
+  /** Distance in cells from each cell to the nearest mapped occupied cell. */
+  distance: Float32Array;
+  /** A return is explained within this distance of mapped structure, in cells. */
+  toleranceCells: number;
+  /** Side of an agreement block, in cells. */
+  blockCells: number;
+}
+
 /** What the accumulator needs to know about the batch's site. */
 export interface AccumulatorContext {
   grid: OccupancyGrid;
+  agreement: AgreementSetup;
   timezone: string;
   robotsByName: Map<string, Robot>;
   /** Set for robot batches: lines naming another robot are refused. */
@@ -53,22 +68,54 @@ export interface AccumulatorContext {
   countNoReturnAsPass: boolean;
   maxNoReturnTraceM?: number;
   now: Date;
+  /** Scratch file for packed chunks (uploads); in memory when absent. */
+  spillFile?: string;
 }
 
 /**
- * Reads scan lines one at a time into per-day hit/pass counters, per-robot-day figures and
- * refused lines, without touching the database: the store adds the result in one transaction.
- * Memory: 8 bytes per map cell for each of at most two resident days, plus packed chunks.
+ * Reads scan lines one at a time into per-robot, per-day hit/pass counters, agreement figures
+ * and refused lines, without touching the database: the store adds the result in one
+ * transaction. Memory: 8 bytes per map cell for each (robot, day) pair in flight, within a
+ * budget; packed pairs go to the spill (memory or a scratch file).
  */
 export class ScanAccumulator {
-  private readonly resident = new Map<string, EvidenceCounters>();
-  private readonly packed: PendingChunk[] = [];
+  private readonly resident = new Map<string, { robotId: string; day: string; counters: EvidenceCounters }>();
+  private readonly maxResident: number;
+  readonly spill: ChunkSpill;
   private readonly stats = new Map<string, PendingStat>();
+  private readonly blocks = new Map<string, PendingBlocks>();
   private readonly daySet = new Set<string>();
-  private lastDayMs = { start: Infinity, end: -Infinity, day: '' };
-  readonly figures: BatchFigures = { lines: 0, scans: 0, beams: 0, returns: 0, outOfMap: 0, rejectedCount: 0, rejectedLines: [], days: [] };
+  private readonly frame;
+  private readonly blockCols: number;
+  private readonly blockCount: number;
+  private lastDay = { start: Infinity, end: -Infinity, day: '' };
+  // The stat and block counters the current scan's returns are added to (set before each scan).
+  private current: { stat: PendingStat; blocks: Uint32Array } | null = null;
+  readonly figures: BatchFigures = { lines: 0, scans: 0, beams: 0, returns: 0, explained: 0, outOfMap: 0, rejectedCount: 0, rejectedLines: [], days: [] };
 
-  constructor(private readonly ctx: AccumulatorContext) {}
+  constructor(private readonly ctx: AccumulatorContext) {
+    const cells = ctx.grid.width * ctx.grid.height;
+    this.maxResident = Math.max(1, Math.floor(RESIDENT_BUDGET_BYTES / (8 * cells)));
+    this.spill = new ChunkSpill(ctx.spillFile);
+    this.frame = makeGridFrame(ctx.grid);
+    this.blockCols = Math.ceil(ctx.grid.width / ctx.agreement.blockCells);
+    this.blockCount = this.blockCols * Math.ceil(ctx.grid.height / ctx.agreement.blockCells);
+  }
+
+  // One handler for every return, allocated once: judges the endpoint against the map.
+  private readonly onReturn = (x: number, y: number, inMap: boolean) => {
+    const cur = this.current!;
+    if (!inMap) return;
+    const { grid, agreement } = this.ctx;
+    const i = Math.floor(frameU(this.frame, x, y));
+    const j = Math.floor(frameV(this.frame, x, y));
+    const block = Math.floor(j / agreement.blockCells) * this.blockCols + Math.floor(i / agreement.blockCells);
+    cur.blocks[block]++;
+    if (agreement.distance[j * grid.width + i] <= agreement.toleranceCells) {
+      cur.stat.explained++;
+      cur.blocks[this.blockCount + block]++;
+    }
+  };
 
   /** Adds one line (1-based number) of the log; blank lines are skipped silently. */
   addLine(lineNo: number, text: string): void {
@@ -84,28 +131,30 @@ export class ScanAccumulator {
       return this.reject(lineNo, `The scanner "${scan.scanner}" is not configured for ${robot.name} (configured: ${robot.mounts.map((m) => m.name).join(', ')}).`);
     }
     const day = this.dayOf(scan.timeMs);
-    const f = accumulateScan(this.ctx.grid, this.countersFor(day), scan, mount, {
+    const stat = this.statFor(robot.id, scan.scanner, day);
+    const explainedBefore = stat.explained;
+    this.current = { stat, blocks: this.blocksFor(robot.id, day) };
+    const f = accumulateScan(this.ctx.grid, this.countersFor(robot.id, day), scan, mount, {
       countNoReturnAsPass: this.ctx.countNoReturnAsPass,
       maxNoReturnTraceM: this.ctx.maxNoReturnTraceM,
+      onReturn: this.onReturn,
     });
     this.figures.scans++;
     this.figures.beams += f.beams;
     this.figures.returns += f.returns;
+    this.figures.explained += stat.explained - explainedBefore;
     this.figures.outOfMap += f.outOfMap;
-    const key = `${robot.id}|${scan.scanner}|${day}`;
-    let stat = this.stats.get(key);
-    if (!stat) this.stats.set(key, (stat = { robotId: robot.id, scanner: scan.scanner, day, scans: 0, beams: 0, returns: 0, outOfMap: 0 }));
     stat.scans++;
     stat.beams += f.beams;
     stat.returns += f.returns;
     stat.outOfMap += f.outOfMap;
   }
 
-  /** Everything to add to the store: chunks of every day touched, and per-robot-day figures. */
-  finish(): { chunks: PendingChunk[]; stats: PendingStat[] } {
-    for (const day of [...this.resident.keys()]) this.pack(day);
+  /** Packs what is still in memory; returns the per-robot-day figures and agreement blocks. Chunks are in `spill`. */
+  finish(): { stats: PendingStat[]; blocks: PendingBlocks[] } {
+    for (const key of [...this.resident.keys()]) this.pack(key);
     this.figures.days = [...this.daySet].sort();
-    return { chunks: this.packed, stats: [...this.stats.values()] };
+    return { stats: [...this.stats.values()], blocks: [...this.blocks.values()] };
   }
 
   private reject(line: number, reason: string) {
@@ -113,31 +162,51 @@ export class ScanAccumulator {
     if (this.figures.rejectedLines.length < MAX_REJECTED_KEPT) this.figures.rejectedLines.push({ line, reason });
   }
 
+  private statFor(robotId: string, scanner: string, day: string): PendingStat {
+    const key = `${robotId}|${scanner}|${day}`;
+    let stat = this.stats.get(key);
+    if (!stat) this.stats.set(key, (stat = { robotId, scanner, day, scans: 0, beams: 0, returns: 0, explained: 0, outOfMap: 0 }));
+    return stat;
+  }
+
+  private blocksFor(robotId: string, day: string): Uint32Array {
+    const key = `${robotId}|${day}`;
+    let b = this.blocks.get(key);
+    if (!b) this.blocks.set(key, (b = { robotId, day, counts: new Uint32Array(2 * this.blockCount) }));
+    return b.counts;
+  }
+
   // Scans arrive in time order, so the day of the previous scan is usually the answer; only a
   // scan outside that day's bounds pays for a time-zone conversion.
   private dayOf(ms: number): string {
-    if (ms >= this.lastDayMs.start && ms < this.lastDayMs.end) return this.lastDayMs.day;
+    if (ms >= this.lastDay.start && ms < this.lastDay.end) return this.lastDay.day;
     const local = DateTime.fromMillis(ms, { zone: this.ctx.timezone });
     const start = local.startOf('day');
-    this.lastDayMs = { start: start.toMillis(), end: start.plus({ days: 1 }).toMillis(), day: local.toISODate()! };
-    return this.lastDayMs.day;
+    this.lastDay = { start: start.toMillis(), end: start.plus({ days: 1 }).toMillis(), day: local.toISODate()! };
+    return this.lastDay.day;
   }
 
-  private countersFor(day: string): EvidenceCounters {
-    let counters = this.resident.get(day);
-    if (counters) return counters;
-    if (this.resident.size >= RESIDENT_DAYS) this.pack(this.resident.keys().next().value!);
-    counters = createCounters(this.ctx.grid);
-    this.resident.set(day, counters);
+  private countersFor(robotId: string, day: string): EvidenceCounters {
+    const key = `${robotId}|${day}`;
+    const hit = this.resident.get(key);
+    if (hit) {
+      // Re-inserting keeps the map in least-recently-used order, so interleaved robots stay resident.
+      this.resident.delete(key);
+      this.resident.set(key, hit);
+      return hit.counters;
+    }
+    if (this.resident.size >= this.maxResident) this.pack(this.resident.keys().next().value!);
+    const entry = { robotId, day, counters: createCounters(this.ctx.grid) };
+    this.resident.set(key, entry);
     this.daySet.add(day);
-    return counters;
+    return entry.counters;
   }
 
-  private pack(day: string) {
-    const counters = this.resident.get(day)!;
-    this.resident.delete(day);
+  private pack(key: string) {
+    const { robotId, day, counters } = this.resident.get(key)!;
+    this.resident.delete(key);
     for (const c of splitIntoChunks(this.ctx.grid.width, this.ctx.grid.height, counters.hits, counters.passes)) {
-      this.packed.push({ day, cx: c.cx, cy: c.cy, data: deflateRawSync(encodeChunkCounters(c.hits, c.passes), { level: 1 }) });
+      this.spill.push({ robotId, day, cx: c.cx, cy: c.cy }, deflateRawSync(encodeChunkCounters(c.hits, c.passes), { level: 1 }));
     }
   }
 }

@@ -110,6 +110,16 @@ describe('map versions and scan ingest', () => {
     expect(counters.passes.reduce((a, b) => a + b, 0)).toBe(20);
   });
 
+  it('when returns end on a mapped wall or in open floor, then only the wall returns count as explained', async () => {
+    // Endpoint x = 0.525 + 1.45 = 1.975 m lies in cell 39, the wall column; 1.2 m ends in free
+    // floor 0.3 m from the wall, outside the 0.10 m tolerance (DESIGN §4.3 default).
+    const res = await postScans(scanLine({ t: '2026-11-08T10:00:00Z', ranges: [1.45, 1.2, null] }), 'agreement-1');
+    expect(res.status).toBe(201);
+    expect(res.body.batch).toMatchObject({ returns: 2, explained: 1, agreement: 0.5 });
+    const stat = await t.dataSource.query("SELECT returns, explained FROM daily_stats WHERE day = '2026-11-08'");
+    expect(stat).toEqual([{ returns: 2, explained: 1 }]);
+  });
+
   it('when the same batch is posted again, with or without its key, then it answers "already received" and adds nothing', async () => {
     const body = [scanLine({}), '{"t": "broken', scanLine({ robot: 'AMR-02' }), ''].join('\n');
     const before = await evidenceSnapshot(t);

@@ -6,8 +6,8 @@ import { assert, expectText, signIn } from './helpers.mjs';
 const mapper = { email: 'tomas.mapper@kestrelway.example', password: 'demo-mapper-2026' };
 
 /**
- * A binary PGM (Netpbm P5, maxval 255) of a small invented hall: dark outer walls and one rack
- * row, light free space, and a grey unknown strip along the top. P5 layout: "P5\n<w> <h>\n255\n"
+ * A binary PGM (Netpbm P5, maxval 255) of a small invented hall: dark outer walls and three rack
+ * rows, light free space, and a grey unknown strip along the top. P5 layout: "P5\n<w> <h>\n255\n"
  * then one byte per pixel, top row first (Netpbm PGM format, from memory).
  */
 function hallPgm(width, height) {
@@ -16,7 +16,8 @@ function hallPgm(width, height) {
   for (let row = 0; row < height; row++) {
     for (let col = 0; col < width; col++) {
       const wall = row < 2 || row >= height - 2 || col < 2 || col >= width - 2;
-      const rack = row >= height / 2 - 3 && row < height / 2 + 3 && col >= width / 4 && col < (3 * width) / 4;
+      // Three rack rows, 0.3 m deep, across the middle half of the hall.
+      const rack = [0.35, 0.55, 0.75].some((f) => Math.abs(row - f * height) < 3) && col >= width / 4 && col < (3 * width) / 4;
       // 205 reads as p ≈ 0.2, between the default thresholds: unknown space.
       if (row >= 2 && row < 12 && !wall) pixels[row * width + col] = 205;
       if (wall || rack) pixels[row * width + col] = 0;

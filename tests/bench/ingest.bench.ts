@@ -88,8 +88,9 @@ export async function run(): Promise<void> {
     const out = gz.pipe(createWriteStream(logPath));
     let written = 0;
     let scans = 0;
-    for (let day = 1; written < LOG_MB * 1024 * 1024 && day < 40; day++) {
-      for (const s of scenario.scansForDay(day)) {
+    // Days 1…39 of the scenario, over again when the log is to be longer than 39 days.
+    for (let k = 0; written < LOG_MB * 1024 * 1024; k++) {
+      for (const s of scenario.scansForDay(1 + (k % 39))) {
         const line = JSON.stringify(s) + '\n';
         written += line.length;
         scans++;

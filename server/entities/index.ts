@@ -4,15 +4,19 @@ import { DailyStat } from './daily-stat.entity.js';
 import { EvidenceChunk } from './evidence-chunk.entity.js';
 import { MapVersion } from './map-version.entity.js';
 import { ScanBatch } from './scan-batch.entity.js';
+import { ScanSample } from './scan-sample.entity.js';
 import { Invitation } from './invitation.entity.js';
+import { JobRun } from './job-run.entity.js';
 import { Organization } from './organization.entity.js';
+import { RobotFlag } from './robot-flag.entity.js';
 import { RobotToken } from './robot-token.entity.js';
 import { Robot } from './robot.entity.js';
 import { Session } from './session.entity.js';
 import { Site } from './site.entity.js';
 import { User } from './user.entity.js';
+import { Zone } from './zone.entity.js';
 
-export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, Invitation, MapVersion, Organization, Robot, RobotToken, ScanBatch, Session, Site, User };
+export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, Invitation, JobRun, MapVersion, Organization, Robot, RobotFlag, RobotToken, ScanBatch, ScanSample, Session, Site, User, Zone };
 
 /** Every entity class, passed to the DataSource as classes (not globs). */
-export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks];
+export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun];

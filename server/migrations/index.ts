@@ -1,5 +1,6 @@
 import { Foundation1796170942239 } from './1796170942239-Foundation.js';
 import { MapsAndEvidence1796172603219 } from './1796172603219-MapsAndEvidence.js';
+import { MapHealth1796172987767 } from './1796172987767-MapHealth.js';
 
 /** Every migration class in order; new ones are appended here. */
-export const migrations: Function[] = [Foundation1796170942239, MapsAndEvidence1796172603219];
+export const migrations: Function[] = [Foundation1796170942239, MapsAndEvidence1796172603219, MapHealth1796172987767];

@@ -5,7 +5,7 @@ import { decodeChunkCounters, DEFAULT_CHUNK_SIZE, encodeChunkCounters, mergeChun
 import type { EvidenceCounters } from '../../shared/scan/accumulate.js';
 import { exclusive } from '../transaction-lock.js';
 import type { PendingChunk } from './chunk-spill.js';
-import type { PendingBlocks, PendingStat } from './scan-accumulator.js';
+import type { PendingBlocks, PendingSample, PendingStat } from './scan-accumulator.js';
 
 const CHUNK_CELLS = DEFAULT_CHUNK_SIZE * DEFAULT_CHUNK_SIZE;
 const UINT32_MAX = 0xffff_ffff;
@@ -22,7 +22,11 @@ export interface BatchEvidence {
   stats: PendingStat[];
   blocks: PendingBlocks[];
   blockCells: number;
+  samples: PendingSample[];
 }
+
+/** Most raw scans kept per robot, scanner and day for mount estimation (product choice). */
+export const SAMPLE_MAX = 48;
 
 function addSaturating(into: Uint32Array, from: Uint32Array) {
   for (let k = 0; k < into.length; k++) into[k] = Math.min(into[k] + from[k], UINT32_MAX);
@@ -69,6 +73,11 @@ export class EvidenceStore {
       'INSERT INTO agreement_blocks (map_version_id, day, robot_id, block_cells, data) VALUES (?, ?, ?, ?, ?) ' +
         'ON CONFLICT (map_version_id, day, robot_id) DO UPDATE SET data = excluded.data, block_cells = excluded.block_cells',
     );
+    const selectSample = raw.prepare('SELECT count, data FROM scan_samples WHERE map_version_id = ? AND robot_id = ? AND scanner = ? AND day = ?');
+    const upsertSample = raw.prepare(
+      'INSERT INTO scan_samples (map_version_id, robot_id, scanner, day, count, data) VALUES (?, ?, ?, ?, ?, ?) ' +
+        'ON CONFLICT (map_version_id, robot_id, scanner, day) DO UPDATE SET count = excluded.count, data = excluded.data',
+    );
     const now = sqliteDatetime(new Date());
     const run = raw.transaction(() => {
       if (!guard(raw)) return false;
@@ -92,6 +101,14 @@ export class EvidenceStore {
           if (old.length === counts.length) addSaturating(counts, old);
         }
         upsertBlocks.run(mapVersionId, b.day, b.robotId, evidence.blockCells, encodeCounts(counts));
+      }
+      for (const smp of evidence.samples) {
+        const stored = selectSample.get(mapVersionId, smp.robotId, smp.scanner, smp.day) as { count: number; data: Buffer } | undefined;
+        const have = stored?.count ?? 0;
+        if (have >= SAMPLE_MAX) continue;
+        const take = smp.lines.slice(0, SAMPLE_MAX - have);
+        const text = (stored ? inflateRawSync(stored.data).toString('utf8') + '\n' : '') + take.join('\n');
+        upsertSample.run(mapVersionId, smp.robotId, smp.scanner, smp.day, have + take.length, deflateRawSync(Buffer.from(text), { level: 6 }));
       }
       return true;
     });

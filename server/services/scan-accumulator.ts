@@ -11,6 +11,8 @@ import { ChunkSpill } from './chunk-spill.js';
 
 /** Most refused lines kept with their reasons per batch; the count covers all. */
 export const MAX_REJECTED_KEPT = 200;
+/** Raw scans kept per robot, scanner and day in one batch, for mount estimation (product choice). */
+export const SAMPLE_PER_BATCH = 24;
 /** Memory for full-size counters of (robot, day) pairs in flight; older pairs are packed (product choice). */
 const RESIDENT_BUDGET_BYTES = 160 * 1024 * 1024;
 
@@ -32,6 +34,14 @@ export interface PendingBlocks {
   day: string;
   /** returns of block b at [b], explained returns at [blockCount + b]. */
   counts: Uint32Array;
+}
+
+/** A few raw scan lines of one robot, scanner and day (reservoir sample of the batch). */
+export interface PendingSample {
+  robotId: string;
+  scanner: string;
+  day: string;
+  lines: string[];
 }
 
 /** Batch totals as the receipt shows them. */
@@ -85,6 +95,9 @@ export class ScanAccumulator {
   private readonly stats = new Map<string, PendingStat>();
   private readonly blocks = new Map<string, PendingBlocks>();
   private readonly daySet = new Set<string>();
+  private readonly samples = new Map<string, PendingSample & { seen: number }>();
+  // Deterministic reservoir sampling: the same batch keeps the same scans.
+  private sampleState = 0x9e3779b9;
   private readonly frame;
   private readonly blockCols: number;
   private readonly blockCount: number;
@@ -139,6 +152,7 @@ export class ScanAccumulator {
       maxNoReturnTraceM: this.ctx.maxNoReturnTraceM,
       onReturn: this.onReturn,
     });
+    this.sample(robot.id, scan.scanner, day, text);
     this.figures.scans++;
     this.figures.beams += f.beams;
     this.figures.returns += f.returns;
@@ -151,10 +165,26 @@ export class ScanAccumulator {
   }
 
   /** Packs what is still in memory; returns the per-robot-day figures and agreement blocks. Chunks are in `spill`. */
-  finish(): { stats: PendingStat[]; blocks: PendingBlocks[] } {
+  finish(): { stats: PendingStat[]; blocks: PendingBlocks[]; samples: PendingSample[] } {
     for (const key of [...this.resident.keys()]) this.pack(key);
     this.figures.days = [...this.daySet].sort();
-    return { stats: [...this.stats.values()], blocks: [...this.blocks.values()] };
+    const samples = [...this.samples.values()].map(({ robotId, scanner, day, lines }) => ({ robotId, scanner, day, lines }));
+    return { stats: [...this.stats.values()], blocks: [...this.blocks.values()], samples };
+  }
+
+  private sample(robotId: string, scanner: string, day: string, line: string) {
+    const key = `${robotId}|${scanner}|${day}`;
+    let s = this.samples.get(key);
+    if (!s) this.samples.set(key, (s = { robotId, scanner, day, lines: [], seen: 0 }));
+    s.seen++;
+    if (s.lines.length < SAMPLE_PER_BATCH) {
+      s.lines.push(line);
+      return;
+    }
+    // Algorithm R (Vitter 1985): the k-th line replaces a kept one with probability SAMPLE_PER_BATCH / k.
+    this.sampleState = (Math.imul(this.sampleState, 1664525) + 1013904223) >>> 0;
+    const slot = this.sampleState % s.seen;
+    if (slot < SAMPLE_PER_BATCH) s.lines[slot] = line;
   }
 
   private reject(line: number, reason: string) {

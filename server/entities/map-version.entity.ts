@@ -1,9 +1,10 @@
 import { Column, CreateDateColumn, Entity, Index, JoinColumn, ManyToOne, PrimaryColumn, type Relation } from 'typeorm';
+import type { MapKind } from '../../shared/grid/map-kinds.js';
 import type { MapMode } from '../../shared/types/grid.js';
 import { Site } from './site.entity.js';
 import { User } from './user.entity.js';
 
-export type MapKind = 'floor' | 'station';
+export type { MapKind };
 export type MapStatus = 'draft' | 'active' | 'archived';
 
 /** One uploaded grid map of a site: a floor map, or a docking-station model at fine resolution. */

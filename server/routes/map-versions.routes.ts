@@ -1,16 +1,15 @@
 import { Router } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
+import { MAP_IMAGE_MAX_BYTES } from '../../shared/grid/map-kinds.js';
 import { badRequest } from '../http-error.js';
 import { actorOf, authenticate, requireRole } from '../middleware/authenticate.js';
 import { validate } from '../middleware/validate.js';
 import type { Services } from '../services/index.js';
 import { id } from './schemas.js';
 
-/** Largest map image accepted: a 16-bit 4000 × 4000 PGM is 32 MB (product choice). */
-export const MAP_UPLOAD_LIMIT_BYTES = 64 * 1024 * 1024;
 
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAP_UPLOAD_LIMIT_BYTES, files: 2, fields: 20 } }).fields([
+const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAP_IMAGE_MAX_BYTES, files: 2, fields: 20 } }).fields([
   { name: 'image', maxCount: 1 },
   { name: 'metadata', maxCount: 1 },
 ]);

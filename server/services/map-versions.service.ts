@@ -3,6 +3,7 @@ import { PNG } from 'pngjs';
 import { Not, type DataSource } from 'typeorm';
 import { distanceTransform, type DistanceField } from '../../shared/grid/distance-transform.js';
 import { GridFormatError } from '../../shared/grid/errors.js';
+import { RESOLUTION_BOUNDS } from '../../shared/grid/map-kinds.js';
 import { imageToGrid, type GreyImage } from '../../shared/grid/image-to-grid.js';
 import { checkImageName, parseMapMetadata } from '../../shared/grid/map-metadata.js';
 import { parsePgm } from '../../shared/grid/pgm.js';
@@ -26,8 +27,6 @@ export interface UploadedFile {
 /** Metadata typed into the form for a PNG (or a PGM without YAML). */
 export type FormMetadata = Omit<MapMetadata, 'image'>;
 
-/** Resolution bounds per kind, metres per cell: floors are centimetre-range, stations millimetre-range (common practice). */
-export const RESOLUTION_BOUNDS: Record<MapKind, [number, number]> = { floor: [0.01, 0.5], station: [0.0005, 0.01] };
 
 const PNG_MAGIC = Buffer.from([0x89, 0x50, 0x4e, 0x47]);
 const GRID_CACHE_SIZE = 6;

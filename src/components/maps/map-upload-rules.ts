@@ -1,8 +1,8 @@
 /*
  * The checks the server makes on a map upload, repeated in the browser so that a person hears
  * about a typo before sending a large file. The server checks again and has the last word:
- * keep these in step with server/routes/map-versions.routes.ts, server/services/map-versions.service.ts
- * and shared/grid/map-metadata.ts.
+ * the limits come from shared/grid/map-kinds.ts, which the server uses too; keep the rest in step
+ * with server/routes/map-versions.routes.ts and shared/grid/map-metadata.ts.
  */
 import type { MapFormMetadata, MapKind, MapMode } from '@/api/maps.api';
 
@@ -10,10 +10,9 @@ import type { MapFormMetadata, MapKind, MapMode } from '@/api/maps.api';
 export const DEFAULT_OCCUPIED_THRESH = 0.65;
 /** Free threshold the PGM + YAML map convention assumes when none is given (common practice). */
 export const DEFAULT_FREE_THRESH = 0.196;
-/** Largest map image the server accepts, bytes (the server's product choice). */
-export const MAP_IMAGE_MAX_BYTES = 64 * 1024 * 1024;
-/** Resolution the server accepts per kind, metres per cell: floors centimetre-range, stations millimetre-range. */
-export const RESOLUTION_BOUNDS: Record<MapKind, readonly [number, number]> = { floor: [0.01, 0.5], station: [0.0005, 0.01] };
+import { MAP_IMAGE_MAX_BYTES, RESOLUTION_BOUNDS } from '../../../shared/grid/map-kinds';
+
+export { MAP_IMAGE_MAX_BYTES, RESOLUTION_BOUNDS };
 
 /** The metadata fields as the form holds them: numbers may still be empty. */
 export interface MetadataDraft {

@@ -2,17 +2,12 @@ import { accumulateScan, createCounters } from '../../shared/scan/accumulate.js'
 import type { ScanRecord } from '../../shared/scan/scan-record.js';
 import { traceBeam } from '../../shared/scan/traverse.js';
 import type { GridGeometry } from '../../shared/types/grid.js';
+import { createRng } from '../../shared/sim/random.js';
 
-/** Seeded PRNG (mulberry32) so every run times the same beams. */
+/** Seeded uniform numbers in [0, 1) (the simulator's generator) so every run draws the same values. */
 function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const g = createRng(seed);
+  return () => g.next();
 }
 
 const RESOLUTION = 0.05; // m per cell, the usual map resolution (common practice)

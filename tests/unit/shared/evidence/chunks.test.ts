@@ -6,17 +6,12 @@ import {
   mergeChunk,
   splitIntoChunks,
 } from '../../../../shared/evidence/chunks.js';
+import { createRng } from '../../../../shared/sim/random.js';
 
-/** Seeded PRNG (mulberry32) for repeatable sparse counters. */
+/** Seeded uniform numbers in [0, 1) (the simulator's generator) so every run draws the same values. */
 function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const g = createRng(seed);
+  return () => g.next();
 }
 
 describe('splitIntoChunks', () => {

@@ -1,19 +1,14 @@
 import bresenham from 'bresenham';
 import { describe, expect, it } from 'vitest';
 import { forEachCellOnSegment, tracePass, traceBeam, TraceStatus } from '../../../../shared/scan/traverse.js';
+import { createRng } from '../../../../shared/sim/random.js';
 
 type Cell = [number, number];
 
-/** Small seeded PRNG (mulberry32) so every run draws the same segments. */
+/** Seeded uniform numbers in [0, 1) (the simulator's generator) so every run draws the same values. */
 function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const g = createRng(seed);
+  return () => g.next();
 }
 
 function cellsOf(x0: number, y0: number, x1: number, y1: number): Cell[] {

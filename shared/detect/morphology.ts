@@ -39,13 +39,43 @@ function squarePasses(mask: Uint8Array, width: number, height: number, radius: n
   const r = Math.floor(radius);
   const rows = new Uint8Array(mask.length);
   const out = new Uint8Array(mask.length);
-  for (let j = 0; j < height; j++) slideLine(mask, rows, j * width, 1, width, r, seek);
-  for (let i = 0; i < width; i++) slideLine(rows, out, i, width, height, r, seek);
+  for (let j = 0; j < height; j++) slideLine(mask, rows, j * width, width, r, seek);
+  slideColumns(rows, out, width, height, r, seek);
   return out;
 }
 
-/** One line of `length` cells starting at `start` with stride `step`: running count of `seek` in the window ±r. */
-function slideLine(src: Uint8Array, dst: Uint8Array, start: number, step: number, length: number, r: number, seek: 0 | 1): void {
+/**
+ * The column pass, run row by row with one running count per column: the same window sums as
+ * sliding down each column, but reading memory in order, which is several times faster on large
+ * grids than striding by a whole row per step.
+ */
+function slideColumns(src: Uint8Array, dst: Uint8Array, width: number, height: number, r: number, seek: 0 | 1): void {
+  const wantSet = seek === 1;
+  const notFound = 1 - seek;
+  const counts = new Int32Array(width);
+  const firstEnd = Math.min(r, height - 1);
+  for (let j = 0; j <= firstEnd; j++) {
+    const row = j * width;
+    for (let i = 0; i < width; i++) if ((src[row + i] !== 0) === wantSet) counts[i]++;
+  }
+  for (let j = 0; j < height; j++) {
+    const row = j * width;
+    for (let i = 0; i < width; i++) dst[row + i] = counts[i] > 0 ? seek : notFound;
+    const leaving = j - r;
+    if (leaving >= 0) {
+      const lrow = leaving * width;
+      for (let i = 0; i < width; i++) if ((src[lrow + i] !== 0) === wantSet) counts[i]--;
+    }
+    const entering = j + r + 1;
+    if (entering < height) {
+      const erow = entering * width;
+      for (let i = 0; i < width; i++) if ((src[erow + i] !== 0) === wantSet) counts[i]++;
+    }
+  }
+}
+
+/** One row of `length` cells starting at `start`: running count of `seek` in the window ±r. */
+function slideLine(src: Uint8Array, dst: Uint8Array, start: number, length: number, r: number, seek: 0 | 1): void {
   const found = seek;
   const notFound = 1 - seek;
   // Any non-zero input counts as set, so masks of other 0/non-0 values work too.
@@ -53,14 +83,14 @@ function slideLine(src: Uint8Array, dst: Uint8Array, start: number, step: number
   let count = 0;
   // Window of position 0 covers cells 0…r (the part inside the line).
   const firstEnd = Math.min(r, length - 1);
-  for (let q = 0; q <= firstEnd; q++) if ((src[start + q * step] !== 0) === wantSet) count++;
+  for (let q = 0; q <= firstEnd; q++) if ((src[start + q] !== 0) === wantSet) count++;
   for (let q = 0; q < length; q++) {
-    dst[start + q * step] = count > 0 ? found : notFound;
+    dst[start + q] = count > 0 ? found : notFound;
     // Slide: cell q − r leaves, cell q + r + 1 enters.
     const leaving = q - r;
-    if (leaving >= 0 && (src[start + leaving * step] !== 0) === wantSet) count--;
+    if (leaving >= 0 && (src[start + leaving] !== 0) === wantSet) count--;
     const entering = q + r + 1;
-    if (entering < length && (src[start + entering * step] !== 0) === wantSet) count++;
+    if (entering < length && (src[start + entering] !== 0) === wantSet) count++;
   }
 }
 

@@ -36,7 +36,7 @@ function bruteMorph(mask: Uint8Array, width: number, height: number, radius: num
 
 describe('binary morphology', () => {
   beforeAll(async () => {
-    cv = await loadOpenCv();
+    ({ cv } = await loadOpenCv());
   });
 
   it('when random masks are dilated and eroded by squares and discs, then results equal the brute-force definition', () => {

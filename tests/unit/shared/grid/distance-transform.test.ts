@@ -32,7 +32,7 @@ function bruteSquared(mask: Uint8Array, width: number, height: number): Float64A
 
 describe('distance transform', () => {
   beforeAll(async () => {
-    cv = await loadOpenCv();
+    ({ cv } = await loadOpenCv());
   });
 
   it('when two features sit in opposite corners of a 4 × 3 grid, then squared distances match the hand-computed table', () => {

@@ -3,10 +3,12 @@
 import { run as traverse } from './traverse.bench.js';
 import { run as simulate } from './simulate.bench.js';
 import { run as ingest } from './ingest.bench.js';
+import { run as detect } from './detect.bench.js';
 
 const benches: [string, () => Promise<void>][] = [['traverse', traverse]];
 benches.push(['simulate', simulate]);
 benches.push(['ingest', ingest]);
+benches.push(['detect', detect]);
 
 for (const [name, run] of benches) {
   console.log(`\n== ${name} ==`);

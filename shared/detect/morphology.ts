@@ -15,14 +15,18 @@ export type ElementShape = 'square' | 'disc';
 export function dilate(mask: Uint8Array, width: number, height: number, radius: number, shape: ElementShape = 'square'): Uint8Array {
   checkInput(mask, width, height, radius, shape);
   if (shape === 'disc') return discThreshold(mask, width, height, radius, 1);
-  return squarePasses(mask, width, height, radius, 1);
+  return squareDilate(toBinary(mask, false), width, height, radius);
 }
 
 /** Erosion of the mask (non-zero = set) by a square or disc of `radius` cells; a new 0/1 mask. 1 byte per cell. */
 export function erode(mask: Uint8Array, width: number, height: number, radius: number, shape: ElementShape = 'square'): Uint8Array {
   checkInput(mask, width, height, radius, shape);
   if (shape === 'disc') return discThreshold(mask, width, height, radius, 0);
-  return squarePasses(mask, width, height, radius, 0);
+  // Erosion is the complement of the dilated complement; outside cells count in neither, so the
+  // border rule carries over unchanged.
+  const out = squareDilate(toBinary(mask, true), width, height, radius);
+  for (let k = 0; k < out.length; k++) out[k] ^= 1;
+  return out;
 }
 
 /** Closing (dilation, then erosion) by a square or disc of `radius` cells: fills gaps narrower than the element; a new 0/1 mask. */
@@ -31,67 +35,57 @@ export function closing(mask: Uint8Array, width: number, height: number, radius:
 }
 
 /**
- * Square element, separable: a cell of the result is `1 − seek` when no cell equal to `seek` lies
- * within ±radius along the row, then along the column. Dilation seeks 1 (any set cell spreads),
- * erosion seeks 0 (any clear cell erodes).
+ * Square dilation of a strict 0/1 mask, separable: running window sums of ±r cells along each row,
+ * then along each column; a cell is set when its window sum is positive. Adding the 0/1 values
+ * directly keeps the inner loops free of branches.
  */
-function squarePasses(mask: Uint8Array, width: number, height: number, radius: number, seek: 0 | 1): Uint8Array {
+function squareDilate(set: Uint8Array, width: number, height: number, radius: number): Uint8Array {
   const r = Math.floor(radius);
-  const rows = new Uint8Array(mask.length);
-  const out = new Uint8Array(mask.length);
-  for (let j = 0; j < height; j++) slideLine(mask, rows, j * width, width, r, seek);
-  slideColumns(rows, out, width, height, r, seek);
-  return out;
-}
-
-/**
- * The column pass, run row by row with one running count per column: the same window sums as
- * sliding down each column, but reading memory in order, which is several times faster on large
- * grids than striding by a whole row per step.
- */
-function slideColumns(src: Uint8Array, dst: Uint8Array, width: number, height: number, r: number, seek: 0 | 1): void {
-  const wantSet = seek === 1;
-  const notFound = 1 - seek;
+  const rows = new Uint8Array(set.length);
+  for (let j = 0; j < height; j++) {
+    const start = j * width;
+    let count = 0;
+    // Window of position 0 covers cells 0…r (the part inside the row).
+    const firstEnd = Math.min(r, width - 1);
+    for (let q = 0; q <= firstEnd; q++) count += set[start + q];
+    for (let q = 0; q < width; q++) {
+      rows[start + q] = count > 0 ? 1 : 0;
+      // Slide: cell q − r leaves, cell q + r + 1 enters.
+      if (q - r >= 0) count -= set[start + q - r];
+      if (q + r + 1 < width) count += set[start + q + r + 1];
+    }
+  }
+  // The column pass runs row by row with one running sum per column: the same window sums as
+  // sliding down each column, but reading memory in order, which is much faster on large grids.
+  const out = new Uint8Array(set.length);
   const counts = new Int32Array(width);
   const firstEnd = Math.min(r, height - 1);
   for (let j = 0; j <= firstEnd; j++) {
     const row = j * width;
-    for (let i = 0; i < width; i++) if ((src[row + i] !== 0) === wantSet) counts[i]++;
+    for (let i = 0; i < width; i++) counts[i] += rows[row + i];
   }
   for (let j = 0; j < height; j++) {
     const row = j * width;
-    for (let i = 0; i < width; i++) dst[row + i] = counts[i] > 0 ? seek : notFound;
-    const leaving = j - r;
-    if (leaving >= 0) {
-      const lrow = leaving * width;
-      for (let i = 0; i < width; i++) if ((src[lrow + i] !== 0) === wantSet) counts[i]--;
+    for (let i = 0; i < width; i++) out[row + i] = counts[i] > 0 ? 1 : 0;
+    if (j - r >= 0) {
+      const leaving = (j - r) * width;
+      for (let i = 0; i < width; i++) counts[i] -= rows[leaving + i];
     }
-    const entering = j + r + 1;
-    if (entering < height) {
-      const erow = entering * width;
-      for (let i = 0; i < width; i++) if ((src[erow + i] !== 0) === wantSet) counts[i]++;
+    if (j + r + 1 < height) {
+      const entering = (j + r + 1) * width;
+      for (let i = 0; i < width; i++) counts[i] += rows[entering + i];
     }
   }
+  return out;
 }
 
-/** One row of `length` cells starting at `start`: running count of `seek` in the window ±r. */
-function slideLine(src: Uint8Array, dst: Uint8Array, start: number, length: number, r: number, seek: 0 | 1): void {
-  const found = seek;
-  const notFound = 1 - seek;
-  // Any non-zero input counts as set, so masks of other 0/non-0 values work too.
-  const wantSet = seek === 1;
-  let count = 0;
-  // Window of position 0 covers cells 0…r (the part inside the line).
-  const firstEnd = Math.min(r, length - 1);
-  for (let q = 0; q <= firstEnd; q++) if ((src[start + q] !== 0) === wantSet) count++;
-  for (let q = 0; q < length; q++) {
-    dst[start + q] = count > 0 ? found : notFound;
-    // Slide: cell q − r leaves, cell q + r + 1 enters.
-    const leaving = q - r;
-    if (leaving >= 0 && (src[start + leaving] !== 0) === wantSet) count--;
-    const entering = q + r + 1;
-    if (entering < length && (src[start + entering] !== 0) === wantSet) count++;
-  }
+/** Strict 0/1 copy of a mask (non-zero = 1), complemented when `complement` is true. */
+function toBinary(mask: Uint8Array, complement: boolean): Uint8Array {
+  const out = new Uint8Array(mask.length);
+  const on = complement ? 0 : 1;
+  const off = complement ? 1 : 0;
+  for (let k = 0; k < mask.length; k++) out[k] = mask[k] !== 0 ? on : off;
+  return out;
 }
 
 /**
@@ -99,7 +93,7 @@ function slideLine(src: Uint8Array, dst: Uint8Array, start: number, length: numb
  * set cell; erosion keeps the cells farther than `radius` from every clear cell. Memory: 8 bytes per cell.
  */
 function discThreshold(mask: Uint8Array, width: number, height: number, radius: number, seek: 0 | 1): Uint8Array {
-  const source = seek === 1 ? mask : invert(mask);
+  const source = seek === 1 ? mask : toBinary(mask, true);
   const squared = squaredDistanceTransform(source, width, height);
   const r2 = radius * radius;
   const out = new Uint8Array(mask.length);
@@ -109,12 +103,6 @@ function discThreshold(mask: Uint8Array, width: number, height: number, radius: 
     // With no clear cell at all the distance is Infinity and every cell survives.
     for (let k = 0; k < out.length; k++) out[k] = squared[k] > r2 ? 1 : 0;
   }
-  return out;
-}
-
-function invert(mask: Uint8Array): Uint8Array {
-  const out = new Uint8Array(mask.length);
-  for (let k = 0; k < mask.length; k++) out[k] = mask[k] !== 0 ? 0 : 1;
   return out;
 }
 

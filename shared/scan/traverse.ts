@@ -25,6 +25,7 @@ export const TraceStatus = {
   /** The segment does not touch the grid (or has non-finite coordinates): nothing counted. */
   OutsideMap: 2,
 } as const;
+/** One of the TraceStatus codes. */
 export type TraceStatus = (typeof TraceStatus)[keyof typeof TraceStatus];
 
 /**

@@ -45,7 +45,7 @@ function benchTraverse(): void {
   const seconds = (performance.now() - t0) / 1000;
   let cells = 0;
   for (let k = 0; k < hits.length; k++) cells += hits[k] + passes[k];
-  console.log(`traverse: ${fmt(rounds * n)} beams of 0.5–30 m at ${RESOLUTION} m/cell, mean ${fmt(cellsAlongBeams / n)} cells of length per beam`);
+  console.log(`traverse: ${fmt(rounds * n)} beams of 0.5–30 m at ${RESOLUTION} m/cell, mean beam length ${fmt(cellsAlongBeams / n)} cells`);
   console.log(`traverse: ${fmt(cells / seconds)} cells/s, ${fmt((rounds * n) / seconds)} beams/s (one core, ${seconds.toFixed(2)} s)`);
 }
 

@@ -360,3 +360,116 @@ describe('detectChanges refuses bad input', () => {
     expect(DETECTION_DEFAULTS.minZoneAreaM2).toBe(0.05);
   });
 });
+
+// The simulated site (shared/sim/scenario.ts): a 28-day scenario, analysed over its last 14 days
+// at light settings (every third beam, 100 scans per robot per day) so the file stays well under
+// a minute. Evidence is built once per scenario and shared by the tests below.
+const SIM = { seed: 1, days: 28, startDate: '2026-11-02', scansPerRobotPerDay: 100, beamStep: 3 } as const;
+const NO_CHANGES = { missingFromDay: null, fenceFromDay: null, palletDays: null, unmappedFromDay: null };
+const MOUNT_ERROR_ROBOT = 'AMR-02';
+// 1.4° of scanner yaw: at 10 m a wall's returns land 0.24 m away from it.
+const MOUNT_ERROR_RAD = (1.4 * Math.PI) / 180;
+// A zone belongs to a scripted change when one of its cells lies within the change's bounding
+// box grown by this margin (tolerance plus the scatter band), metres.
+const MATCH_MARGIN_M = 0.25;
+
+const cache = new Map<string, ScenarioEvidence>();
+function evidence(name: 'changes' | 'quiet' | 'mount-error'): ScenarioEvidence {
+  let e = cache.get(name);
+  if (!e) {
+    const scenario =
+      name === 'changes'
+        ? { ...SIM }
+        : name === 'quiet'
+          ? { ...SIM, changes: NO_CHANGES }
+          : { ...SIM, changes: NO_CHANGES, mountErrors: [{ robot: MOUNT_ERROR_ROBOT, dyaw: MOUNT_ERROR_RAD }] };
+    e = buildScenarioEvidence({ scenario, windowDays: 14, groups: { [MOUNT_ERROR_ROBOT]: 'flagged' } });
+    cache.set(name, e);
+  }
+  return e;
+}
+
+function detectOn(e: ScenarioEvidence, groups?: string[]): DetectionResult {
+  return detectChanges(e.scenario.map, occupiedDistance(e.scenario.map), e.days(groups));
+}
+
+/** True when a cell centre of the zone lies in the box grown by `margin` metres. */
+function zoneTouches(grid: OccupancyGrid, zone: ZoneCandidate, box: { minX: number; minY: number; maxX: number; maxY: number }, margin: number): boolean {
+  for (const k of zone.cells) {
+    const i = k % grid.width;
+    const c = gridFrameToWorld(grid, i + 0.5, (k - i) / grid.width + 0.5);
+    if (c.x >= box.minX - margin && c.x <= box.maxX + margin && c.y >= box.minY - margin && c.y <= box.maxY + margin) return true;
+  }
+  return false;
+}
+
+const totalArea = (zones: ZoneCandidate[]): number => zones.reduce((a, z) => a + z.areaM2, 0);
+
+describe('detectChanges on the simulated warehouse', () => {
+  it('when the last 14 of 28 days are analysed, then every scripted change is found with its kind, persistence and start', () => {
+    // Arrange
+    const e = evidence('changes');
+    const { truth, map } = e.scenario;
+    const first = e.dayNumbers[0];
+
+    // Act
+    const { zones } = detectOn(e);
+
+    // Assert: the scenario's ground truth is the reference (shared/sim/changes.ts).
+    const inWindow = truth.changes.filter((c) => c.days.some((d) => d >= first));
+    expect(inWindow.map((c) => c.id).sort()).toEqual(['missing-rack-bays', 'new-fence', 'pallets-staging', 'unmapped-shelving']);
+    for (const change of inWindow) {
+      const matched = zones.filter((z) => z.kind === change.kind && zoneTouches(map, z, change.bbox, MATCH_MARGIN_M));
+      expect(matched.length, change.id).toBeGreaterThan(0);
+      for (const z of matched) expect(z.persistence, change.id).toBe(change.persistence);
+      const activeDates = new Set(change.days.map((d) => truth.dayDates[d]));
+      for (const z of matched) for (const t of z.timeline) if (t.flagged) expect(activeDates.has(t.day), `${change.id} on ${t.day}`).toBe(true);
+      if (change.persistence === 'persistent') {
+        // Flagged from the day it began, or from the window's first day if it began before.
+        const biggest = matched.reduce((a, b) => (b.areaM2 > a.areaM2 ? b : a));
+        expect(biggest.firstFlaggedDay, change.id).toBe(truth.dayDates[Math.max(first, change.days[0])]);
+      }
+    }
+  });
+
+  it('when the last 14 of 28 days are analysed, then zones that touch no scripted change cover under 1 m²', () => {
+    // Bound: 1 m² is 400 cells, less than one pallet's footprint (1.2 m × 1.2 m, common practice)
+    // on a 2,400 m² site; below it a mapper loses no remap decision to false zones.
+    const e = evidence('changes');
+    const { truth, map } = e.scenario;
+
+    // Act
+    const { zones } = detectOn(e);
+
+    // Assert
+    const unmatched = zones.filter((z) => !truth.changes.some((c) => zoneTouches(map, z, c.bbox, MATCH_MARGIN_M)));
+    expect(totalArea(unmatched)).toBeLessThan(1);
+  });
+
+  it('when nothing changed on the site, then (almost) no zone is reported', () => {
+    // Arrange: same site, same robots, people and forklifts, no scripted change.
+    const e = evidence('quiet');
+
+    // Act
+    const result = detectOn(e);
+
+    // Assert: at most two minimum-size zones' worth of area.
+    expect(totalArea(result.zones)).toBeLessThanOrEqual(2 * DETECTION_DEFAULTS.minZoneAreaM2);
+    expect(result.figures.days).toBe(14);
+    expect(result.figures.cellsObserved).toBeGreaterThan(0.5 * e.scenario.map.width * e.scenario.map.height);
+  });
+
+  it("when one robot's scanner is turned 1.4°, then its skewed returns make ghost zones that leaving its evidence out removes", () => {
+    // Arrange: nothing changed; AMR-02's front scanner sits 1.4° off its configured yaw, so its
+    // returns land beside and behind the walls it sees. The server leaves such a robot out (§4.5).
+    const e = evidence('mount-error');
+
+    // Act
+    const all = detectOn(e);
+    const without = detectOn(e, ['rest']);
+
+    // Assert
+    expect(totalArea(all.zones)).toBeGreaterThan(0.2);
+    expect(totalArea(without.zones)).toBeLessThanOrEqual(2 * DETECTION_DEFAULTS.minZoneAreaM2);
+  });
+});

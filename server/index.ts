@@ -2,6 +2,7 @@ import 'reflect-metadata';
 import { mkdirSync } from 'node:fs';
 import type { Server } from 'node:http';
 import pino from 'pino';
+import { scheduleJobs } from '../jobs/index.js';
 import { createApp } from './app.js';
 import { loadConfig } from './config.js';
 import { openDatabase } from './data-source.js';
@@ -15,6 +16,7 @@ async function main() {
   const dataSource = await openDatabase({ database: config.databasePath });
   const { app, services } = createApp({ config, dataSource, log });
   await services.ingest.failInterrupted();
+  await services.jobRuns.failInterrupted();
   if (config.seedDemo) await seedDemoAccounts(dataSource, log);
   const server: Server = app.listen(config.port, config.host, () => {
     const address = server.address();
@@ -28,11 +30,15 @@ async function main() {
   // on /api/health, and pick up where a restart left off.
   if (config.seedDemo && config.seedDemoEvidence && (await demoEvidencePending(dataSource))) {
     log.info('loading the demo scenario’s maps and simulated scans in the background');
-    seedDemoEvidence(dataSource, services, log, new Date(), DEMO_DAYS, services.demoSeed).catch((err) => {
-      services.demoSeed.state = 'failed';
-      log.error({ err }, 'the demo evidence could not be loaded');
-    });
+    seedDemoEvidence(dataSource, services, log, new Date(), DEMO_DAYS, services.demoSeed)
+      // The demo should open with zones and flags, not wait for the first night.
+      .then(() => services.jobRuns.detect('startup'))
+      .catch((err) => {
+        services.demoSeed.state = 'failed';
+        log.error({ err }, 'the demo evidence could not be loaded');
+      });
   }
+  const jobs = scheduleJobs({ services, dataSource, log });
 
   let stopping = false;
   const stop = (signal: string) => {
@@ -41,6 +47,7 @@ async function main() {
     log.info({ signal }, 'stopping');
     const force = setTimeout(() => process.exit(1), 10_000).unref();
     server.close(async () => {
+      await jobs.stop();
       await dataSource.destroy();
       clearTimeout(force);
       process.exit(0);

@@ -7,12 +7,14 @@ import { authRoutes } from './auth.routes.js';
 import { healthRoutes } from './health.routes.js';
 import { ingestRoutes } from './ingest.routes.js';
 import { invitationsRoutes } from './invitations.routes.js';
+import { jobRunsRoutes } from './job-runs.routes.js';
 import { mapVersionsRoutes } from './map-versions.routes.js';
 import { organizationsRoutes } from './organizations.routes.js';
 import { robotsRoutes } from './robots.routes.js';
 import { scanBatchesRoutes } from './scan-batches.routes.js';
 import { sitesRoutes } from './sites.routes.js';
 import { usersRoutes } from './users.routes.js';
+import { zonesRoutes } from './zones.routes.js';
 
 /** One row per resource router, mounted under /api. */
 export interface RouteEntry {
@@ -32,7 +34,9 @@ export function routeTable(services: Services, config: Config, db: DataSource, v
     { path: '/sites/:siteId/robots', router: robotsRoutes(services) },
     { path: '/sites/:siteId/map-versions', router: mapVersionsRoutes(services) },
     { path: '/sites/:siteId/scan-batches', router: scanBatchesRoutes(services, config) },
+    { path: '/sites/:siteId/zones', router: zonesRoutes(services) },
     { path: '/ingest', router: ingestRoutes(services) },
+    { path: '/job-runs', router: jobRunsRoutes(services) },
     { path: '/audit-events', router: auditRoutes(services) },
   ];
 }

@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { actorOf, authenticate, requireRole } from '../middleware/authenticate.js';
 import { validate } from '../middleware/validate.js';
 import type { Services } from '../services/index.js';
+import { flagView } from '../services/scanner-check.service.js';
 import { id, mounts, name } from './schemas.js';
 
 const robotName = name(40).regex(/^[A-Za-z0-9_.-]+$/, 'may use letters, digits, _ . - only (it must match the name in scan logs)');
@@ -23,7 +24,7 @@ export function robotsRoutes(services: Services) {
   router.use(authenticate);
 
   router.get('/', validate({ params: siteParams }), async (_req, res) => {
-    res.json({ robots: await services.robots.list(actorOf(res), res.locals.params.siteId) });
+    res.json({ robots: await services.scannerCheck.robotsWithHealth(actorOf(res), res.locals.params.siteId) });
   });
 
   router.post('/', requireRole(...MANAGERS), validate({ params: siteParams, body: createBody }), async (_req, res) => {
@@ -55,6 +56,11 @@ export function robotsRoutes(services: Services) {
     const { siteId, robotId, tokenId } = res.locals.params;
     await services.robots.revokeToken(actorOf(res), siteId, robotId, tokenId);
     res.status(204).end();
+  });
+
+  router.post('/:robotId/flags/:flagId/clear', requireRole(...MANAGERS), validate({ params: z.object({ siteId: id, robotId: id, flagId: id }), body: z.strictObject({ note: z.string().trim().min(1, 'say what was done, e.g. "window cleaned, mount re-aligned"').max(500) }) }), async (_req, res) => {
+    const { siteId, robotId, flagId } = res.locals.params;
+    res.json({ flag: flagView(await services.scannerCheck.clear(actorOf(res), siteId, robotId, flagId, res.locals.body.note)) });
   });
 
   return router;

@@ -13,15 +13,20 @@ export function sitesRoutes(services: Services) {
   router.use(authenticate);
 
   router.get('/', async (_req, res) => {
-    res.json({ sites: await services.sites.list(actorOf(res)) });
+    res.json({ sites: await services.health.fleet(actorOf(res)) });
   });
 
   router.post('/', requireRole('admin'), validate({ body: createBody }), async (_req, res) => {
-    res.status(201).json({ site: await services.sites.create(actorOf(res), res.locals.body) });
+    const site = await services.sites.create(actorOf(res), res.locals.body);
+    res.status(201).json({ site: await services.health.site(actorOf(res), site.id) });
   });
 
   router.get('/:siteId', validate({ params: z.object({ siteId: id }) }), async (_req, res) => {
-    res.json({ site: await services.sites.get(actorOf(res), res.locals.params.siteId) });
+    res.json({ site: await services.health.site(actorOf(res), res.locals.params.siteId) });
+  });
+
+  router.get('/:siteId/agreement', validate({ params: z.object({ siteId: id }), query: z.strictObject({ days: z.coerce.number().int().min(1).max(60).default(7) }) }), async (_req, res) => {
+    res.json({ agreement: await services.health.agreementBlocks(actorOf(res), res.locals.params.siteId, res.locals.query.days) });
   });
 
   return router;

@@ -120,6 +120,11 @@ export class EvidenceStore {
    * leaving out the listed robots; returns the number of chunks read.
    */
   async loadInto(mapVersionId: string, days: string[], width: number, height: number, into: EvidenceCounters, excludeRobots: string[] = []): Promise<number> {
+    return this.loadIntoSync(mapVersionId, days, width, height, into, excludeRobots);
+  }
+
+  /** loadInto without a promise, for pull-style iteration inside a computation. */
+  loadIntoSync(mapVersionId: string, days: string[], width: number, height: number, into: EvidenceCounters, excludeRobots: string[] = []): number {
     const raw = rawHandle(this.db);
     const rows = raw
       .prepare(
@@ -132,5 +137,11 @@ export class EvidenceStore {
       mergeChunk(width, height, into.hits, into.passes, { cx: row.cx, cy: row.cy, hits, passes });
     }
     return rows.length;
+  }
+
+  /** The days of a map version that hold evidence, oldest first. */
+  daysWithEvidence(mapVersionId: string, from: string, to: string): string[] {
+    const rows = rawHandle(this.db).prepare('SELECT DISTINCT day FROM evidence_chunks WHERE map_version_id = ? AND day >= ? AND day <= ? ORDER BY day').all(mapVersionId, from, to) as Array<{ day: string }>;
+    return rows.map((r) => r.day);
   }
 }

@@ -4,11 +4,15 @@ import type { Sessions } from '../auth/sessions.js';
 import type { Config } from '../config.js';
 import { AuditService } from './audit.service.js';
 import { DemoSeedProgress } from './demo-seed.service.js';
+import { DetectionService } from './detection.service.js';
+import { HealthService } from './health.service.js';
 import { IngestService } from './ingest.service.js';
 import { InvitationsService } from './invitations.service.js';
+import { JobRunsService } from './job-runs.service.js';
 import { MapVersionsService } from './map-versions.service.js';
 import { OrganizationsService } from './organizations.service.js';
 import { RobotsService } from './robots.service.js';
+import { ScannerCheckService } from './scanner-check.service.js';
 import { SitesService } from './sites.service.js';
 import { UsersService } from './users.service.js';
 
@@ -17,7 +21,15 @@ export function createServices(db: DataSource, config: Config, sessions: Session
   const audit = new AuditService(db);
   const sites = new SitesService(db, audit);
   const mapVersions = new MapVersionsService(db, sites, audit);
+  const health = new HealthService(db, sites, mapVersions);
+  const robots = new RobotsService(db, sites, audit);
+  const scannerCheck = new ScannerCheckService(db, sites, robots, mapVersions, audit);
+  const detection = new DetectionService(db, sites, mapVersions, health, scannerCheck, audit, log);
   return {
+    health,
+    scannerCheck,
+    detection,
+    jobRuns: new JobRunsService(db, detection, log),
     demoSeed: new DemoSeedProgress(),
     mapVersions,
     ingest: new IngestService(db, sites, mapVersions, log),
@@ -26,7 +38,7 @@ export function createServices(db: DataSource, config: Config, sessions: Session
     users: new UsersService(db, sessions, audit),
     invitations: new InvitationsService(db, audit, config.baseUrl, log),
     organizations: new OrganizationsService(db, audit),
-    robots: new RobotsService(db, sites, audit),
+    robots,
   };
 }
 

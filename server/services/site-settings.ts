@@ -10,6 +10,22 @@ export interface SiteSettings {
   countNoReturnAsPass: boolean;
   /** With countNoReturnAsPass: trace no-return beams this far, metres (default: the scan's rangeMax). */
   maxNoReturnTraceM?: number;
+  /** Health score at or above which the map is "good", percent (DESIGN.md §4.3 product default). */
+  healthGoodMin: number;
+  /** Health score at or above which the map is "watch" (below: "remap advised"), percent (DESIGN.md §4.3 product default). */
+  healthWatchMin: number;
+  /** Days of evidence change detection pools (DESIGN.md §4.4 default 14; a product choice). */
+  detectionWindowDays: number;
+  /** Local hour (0–23) of the nightly detection run (product choice: 02:00, after the late shift). */
+  detectionHour: number;
+  /** Runs a zone may go unseen before it is marked cleared (product choice). */
+  clearZoneAfterRuns: number;
+  /** Days of evidence kept (product choice, 60). */
+  retentionDays: number;
+  /** A robot's scanner is flagged when its median robust z over the recent days is at or below −this (product choice). */
+  scannerFlagZ: number;
+  /** Fewest returns a robot's scanner needs on a day for the day to count in the consistency check (product choice). */
+  scannerMinReturnsPerDay: number;
 }
 
 /** Product defaults of the site settings. */
@@ -17,6 +33,14 @@ export const SITE_SETTING_DEFAULTS: SiteSettings = {
   agreementToleranceM: 0.1,
   agreementBlockM: 2,
   countNoReturnAsPass: false,
+  healthGoodMin: 97,
+  healthWatchMin: 90,
+  detectionWindowDays: 14,
+  detectionHour: 2,
+  clearZoneAfterRuns: 3,
+  retentionDays: 60,
+  scannerFlagZ: 3.5,
+  scannerMinReturnsPerDay: 1000,
 };
 
 /** The site's settings, defaults for what it does not set. */

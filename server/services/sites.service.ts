@@ -25,8 +25,6 @@ export class SitesService {
       timezone: site.timezone,
       organization: { id: site.organization.id, name: site.organization.name },
       robotCount: await this.db.getRepository(Robot).countBy({ siteId: site.id }),
-      // Health figures arrive with change detection; until then the client shows "no data yet".
-      health: null,
     };
   }
 

@@ -1,8 +1,8 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Robot } from '../../server/entities/index.js';
+import { Robot, RobotFlag } from '../../server/entities/index.js';
 import { listRoutes } from '../../server/routes/index.js';
-import { roomMap, scanLine } from './helpers/fixtures.js';
+import { insertZone, roomMap, scanLine } from './helpers/fixtures.js';
 import { createTestApp, demoAccount, demoIds, signIn, type TestApp } from './helpers/test-app.js';
 
 // Every API route, called by every role and by an anonymous client, must answer the status
@@ -31,7 +31,14 @@ async function newDraft(c: Ctx) {
 }
 const mapPath = (c: Ctx, rest = '') => `/api/sites/${c.ids.ambergateSite}/map-versions${rest}`;
 const operatorOnly = (s: number): Record<Who, number> => ({ anon: 401, admin: s, mapper: s, site_manager: 403, viewer: 403 });
-let fixture: { mapVersionId: string; batchId: string };
+let fixture: { mapVersionId: string; batchId: string; zoneId: string };
+let zoneNumber = 100;
+const zonePath = (c: Ctx, id: string, rest = '') => `/api/sites/${c.ids.ambergateSite}/zones/${id}${rest}`;
+async function newFlag(c: Ctx) {
+  const flag = c.t.dataSource.getRepository(RobotFlag).create({ id: crypto.randomUUID(), robotId: c.ids.ambergateRobot, scanner: 'front', status: 'active', raisedAt: new Date(), figures: { days: [], meanAgreement: 0.8, fleetMedian: 0.97, medianZ: -6 }, mount: null });
+  await c.t.dataSource.getRepository(RobotFlag).save(flag);
+  return flag.id;
+}
 async function newRobot(c: Ctx) {
   return c.t.services.robots.create(operator(c), c.ids.ambergateSite, { name: `MX-${c.who}-${c.n}`, model: 'Matrix test', mounts: [] });
 }
@@ -76,6 +83,29 @@ const CASES: Case[] = [
   { route: 'GET /api/sites/:siteId/scan-batches', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/scan-batches` }) },
   { route: 'POST /api/sites/:siteId/scan-batches', expect: { ...operatorOnly(202) }, attach: (req) => req.attach('log', Buffer.from(scanLine({}) + '\n'), 'drive.jsonl'), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/scan-batches` }) },
   { route: 'GET /api/sites/:siteId/scan-batches/:batchId', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/scan-batches/${fixture.batchId}` }) },
+  { route: 'GET /api/sites/:siteId/agreement', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/agreement` }) },
+  { route: 'GET /api/sites/:siteId/zones', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/zones` }) },
+  { route: 'GET /api/sites/:siteId/zones/:zoneId', expect: signedIn(200), prepare: (c) => ({ path: zonePath(c, fixture.zoneId) }) },
+  {
+    route: 'POST /api/sites/:siteId/zones/:zoneId/acknowledge',
+    expect: { anon: 401, admin: 200, mapper: 403, site_manager: 200, viewer: 403 },
+    body: () => ({ note: 'seen it' }),
+    prepare: async (c) => ({ path: zonePath(c, await insertZone(c.t.dataSource, c.ids.ambergateSite, fixture.mapVersionId, zoneNumber++), '/acknowledge') }),
+  },
+  {
+    route: 'POST /api/sites/:siteId/zones/:zoneId/dismiss',
+    expect: { anon: 401, admin: 200, mapper: 200, site_manager: 403, viewer: 403 },
+    body: () => ({ reason: 'volatile area' }),
+    prepare: async (c) => ({ path: zonePath(c, await insertZone(c.t.dataSource, c.ids.ambergateSite, fixture.mapVersionId, zoneNumber++), '/dismiss') }),
+  },
+  {
+    route: 'POST /api/sites/:siteId/robots/:robotId/flags/:flagId/clear',
+    expect: managers(200),
+    body: () => ({ note: 'window cleaned' }),
+    prepare: async (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/robots/${c.ids.ambergateRobot}/flags/${await newFlag(c)}/clear` }),
+  },
+  { route: 'GET /api/job-runs', expect: adminOnly(200) },
+  { route: 'POST /api/job-runs', expect: adminOnly(202), body: () => ({ job: 'retention' }) },
   // Robots post with bearer tokens; a person's session is not enough.
   { route: 'POST /api/ingest/scans', expect: all(401), body: () => scanLine({}) },
   // Last: it changes each role's password (the role's session stays open).
@@ -100,7 +130,7 @@ describe('role matrix', () => {
     await t.services.mapVersions.activate(ids.admin, ids.ambergateSite, map.id);
     const robot = await t.dataSource.getRepository(Robot).findOneByOrFail({ id: ids.ambergateRobot });
     const { batch } = await t.services.ingest.ingestRobotBatch(robot, Buffer.from(scanLine({})), 'matrix');
-    fixture = { mapVersionId: map.id, batchId: batch.id };
+    fixture = { mapVersionId: map.id, batchId: batch.id, zoneId: await insertZone(t.dataSource, ids.ambergateSite, map.id, 1) };
   });
   afterAll(() => t.close());
 

@@ -31,3 +31,17 @@ export function scanLine(opts: { t?: string; robot?: string; scanner?: string; p
     ranges: opts.ranges ?? [1.0],
   });
 }
+
+/** Stores an open zone of the test room directly (as a detection run would), returning its id. */
+export async function insertZone(db: import('typeorm').DataSource, siteId: string, mapVersionId: string, number: number) {
+  const { Zone } = await import('../../../server/entities/index.js');
+  const { deflateRawSync } = await import('node:zlib');
+  const id = (await import('node:crypto')).randomUUID();
+  await db.getRepository(Zone).insert({
+    id, siteId, mapVersionId, number, kind: 'new', status: 'open', persistence: 'persistent',
+    outline: [[0.5, 0.5], [1, 0.5], [1, 1], [0.5, 1]], bbox: [0.5, 0.5, 1, 1], centroid: [0.75, 0.75], cellCount: 100, areaM2: 0.25,
+    meanHitRate: 0.9, hitRateLow: 0.85, hitRateHigh: 0.94, observations: 400, daysObserved: 5, daysFlagged: 5, trafficPerM2PerDay: 12, severity: 0.5,
+    timeline: [], cells: deflateRawSync(Buffer.from(new Int32Array([10 * 40 + 10]).buffer)), firstSeenDay: '2026-11-01', lastSeenDay: '2026-11-05', missedRuns: 0, statusNote: null, statusChangedAt: null,
+  });
+  return id;
+}

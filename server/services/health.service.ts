@@ -1,0 +1,133 @@
+import { inflateRawSync } from 'node:zlib';
+import { In, type DataSource } from 'typeorm';
+import { forecastHealth, healthBand, healthScore } from '../../shared/health/score.js';
+import { AgreementBlocks, DailyStat, RobotFlag, Robot, Site, Zone } from '../entities/index.js';
+import { ACTIVE_ZONE_STATUSES } from '../entities/zone.entity.js';
+import type { Actor } from '../auth/actor.js';
+import type { MapVersionsService } from './map-versions.service.js';
+import type { SitesService } from './sites.service.js';
+import { addDays, completeDays, daysBetween } from './site-days.js';
+import { siteSettings } from './site-settings.js';
+
+/** Days of the score (DESIGN.md §4.3) and of the forecast's fit. */
+const SCORE_DAYS = 7;
+const SERIES_DAYS = 30;
+const FORECAST_DAYS = 28;
+
+/** Map health of sites: score and band, daily series, 7-day change, forecast, zones and flags in numbers. */
+export class HealthService {
+  constructor(
+    private readonly db: DataSource,
+    private readonly sites: SitesService,
+    private readonly mapVersions: MapVersionsService,
+  ) {}
+
+  /** The sites the actor may see, each with its health figures (fleet overview). */
+  async fleet(actor: Actor, now = new Date()) {
+    const sites = await this.sites.list(actor);
+    return Promise.all(sites.map(async (s) => ({ ...s, health: await this.siteHealth(await this.sites.getVisible(actor, s.id), now) })));
+  }
+
+  /** One visible site with its health figures (site header). */
+  async site(actor: Actor, siteId: string, now = new Date()) {
+    const site = await this.sites.getVisible(actor, siteId);
+    return { ...(await this.sites.get(actor, siteId)), health: await this.siteHealth(site, now) };
+  }
+
+  /**
+   * Agreement per block of the active map over the last `days` complete days (flagged robots left
+   * out), for the heat layer: block size, grid of blocks from the map's origin, returns and share explained.
+   */
+  async agreementBlocks(actor: Actor, siteId: string, days: number, now = new Date()) {
+    const site = await this.sites.getVisible(actor, siteId);
+    const version = await this.mapVersions.activeFloor(site.id);
+    if (!version) return null;
+    const window = completeDays(site.timezone, now, days);
+    const excluded = new Set(await this.flaggedRobotIds(site.id));
+    const rows = (await this.db.getRepository(AgreementBlocks).find({ where: { mapVersionId: version.id, day: In(window) } })).filter((r) => !excluded.has(r.robotId));
+    const blockCells = rows[0]?.blockCells ?? Math.round(siteSettings(site).agreementBlockM / version.resolution);
+    const cols = Math.ceil(version.width / blockCells);
+    const rowsCount = Math.ceil(version.height / blockCells);
+    const n = cols * rowsCount;
+    const returns = new Array<number>(n).fill(0);
+    const explained = new Array<number>(n).fill(0);
+    for (const r of rows) {
+      if (r.blockCells !== blockCells) continue;
+      const raw = inflateRawSync(r.data);
+      if (raw.length !== 8 * n) continue;
+      for (let k = 0; k < n; k++) {
+        returns[k] += raw.readUInt32LE(4 * k);
+        explained[k] += raw.readUInt32LE(4 * (n + k));
+      }
+    }
+    return { mapVersionId: version.id, days: window, blockCells, blockM: blockCells * version.resolution, cols, rows: rowsCount, returns, agreement: returns.map((r, k) => (r > 0 ? explained[k] / r : null)) };
+  }
+
+  /** Robots of a site whose scanner check is advised: their returns count in neither the score nor detection. */
+  async flaggedRobotIds(siteId: string): Promise<string[]> {
+    const flags = await this.db.getRepository(RobotFlag).createQueryBuilder('f').innerJoin(Robot, 'r', 'r.id = f.robot_id').where('r.site_id = :siteId AND f.status = :s', { siteId, s: 'active' }).getMany();
+    return [...new Set(flags.map((f) => f.robotId))];
+  }
+
+  /** Per site-local day of the last `count` complete days: returns and explained returns on the active map (flagged robots left out). */
+  async dailySeries(site: Site, now: Date, count = SERIES_DAYS) {
+    const days = completeDays(site.timezone, now, count);
+    const version = await this.mapVersions.activeFloor(site.id);
+    if (!version) return days.map((day) => ({ day, returns: 0, explained: 0, score: null as number | null }));
+    const excluded = await this.flaggedRobotIds(site.id);
+    const rows: Array<{ day: string; returns: number; explained: number }> = await this.db
+      .getRepository(DailyStat)
+      .createQueryBuilder('d')
+      .select('d.day', 'day')
+      .addSelect('SUM(d.returns)', 'returns')
+      .addSelect('SUM(d.explained)', 'explained')
+      .where('d.site_id = :siteId AND d.map_version_id = :v AND d.day >= :from AND d.day <= :to', { siteId: site.id, v: version.id, from: days[0], to: days[days.length - 1] })
+      .andWhere(excluded.length ? 'd.robot_id NOT IN (:...excluded)' : '1=1', { excluded })
+      .groupBy('d.day')
+      .getRawMany();
+    const byDay = new Map(rows.map((r) => [r.day, r]));
+    return days.map((day) => {
+      const r = byDay.get(day);
+      const returns = Number(r?.returns ?? 0);
+      const explained = Number(r?.explained ?? 0);
+      return { day, returns, explained, score: healthScore(explained, returns) };
+    });
+  }
+
+  /** Everything the site header and the fleet overview show about a site's map health. */
+  async siteHealth(site: Site, now = new Date()) {
+    const settings = siteSettings(site);
+    const series = await this.dailySeries(site, now);
+    const sum = (rows: typeof series) => rows.reduce((a, r) => ({ returns: a.returns + r.returns, explained: a.explained + r.explained }), { returns: 0, explained: 0 });
+    const last7 = sum(series.slice(-SCORE_DAYS));
+    const prev7 = sum(series.slice(-2 * SCORE_DAYS, -SCORE_DAYS));
+    const score = healthScore(last7.explained, last7.returns);
+    const previous = healthScore(prev7.explained, prev7.returns);
+    const limits = { goodMin: settings.healthGoodMin, watchMin: settings.healthWatchMin };
+    const withData = series.slice(-FORECAST_DAYS).filter((r) => r.score !== null);
+    const lastDay = series[series.length - 1].day;
+    const forecast = withData.length ? forecastHealth(withData.map((r) => daysBetween(lastDay, r.day)), withData.map((r) => r.score!), settings.healthWatchMin) : null;
+    const zones = await this.db.getRepository(Zone).find({ where: { siteId: site.id, status: In(ACTIVE_ZONE_STATUSES) }, select: { id: true, kind: true, areaM2: true, persistence: true } });
+    const openZones = { new: 0, missing: 0, unmapped: 0 };
+    for (const z of zones) openZones[z.kind]++;
+    return {
+      score,
+      band: score === null ? null : healthBand(score, limits),
+      bands: limits,
+      sentence: score === null ? 'No scans on the active map in the last 7 days yet.' : `The map explains ${score.toFixed(1)} % of laser returns over the last 7 days.`,
+      change7d: score !== null && previous !== null ? score - previous : null,
+      returns7d: last7.returns,
+      series: series.map(({ day, score: s, returns }) => ({ day, score: s, returns })),
+      forecast: forecast && {
+        ...forecast,
+        threshold: settings.healthWatchMin,
+        crossesOn: forecast.daysToThreshold === null ? null : addDays(lastDay, Math.ceil(forecast.daysToThreshold)),
+        earliestOn: forecast.earliestDays === null || !Number.isFinite(forecast.earliestDays) ? null : addDays(lastDay, Math.floor(forecast.earliestDays)),
+        latestOn: forecast.latestDays === null || !Number.isFinite(forecast.latestDays) ? null : addDays(lastDay, Math.ceil(forecast.latestDays)),
+      },
+      openZones,
+      changedAreaM2: zones.reduce((a, z) => a + z.areaM2, 0),
+      flaggedRobots: (await this.flaggedRobotIds(site.id)).length,
+    };
+  }
+}

@@ -49,7 +49,7 @@
 import { gridFrameToWorld } from '../grid/transform.js';
 import { wilsonInterval, wilsonLower, wilsonUpper, Z_95 } from '../stats/wilson.js';
 import { CellState, type OccupancyGrid } from '../types/grid.js';
-import { createFlagContext, flagChanges, type FlagContext } from './change-flags.js';
+import { CellList, createFlagContext, flagChanges, type FlagContext } from './change-flags.js';
 import { labelComponents } from './labelling.js';
 import { closing } from './morphology.js';
 import { outlineToMetres, traceOutline } from './outline.js';
@@ -211,6 +211,7 @@ export function detectChanges(
   const pooledPasses = new Uint32Array(cellCount);
   const marks = new Uint8Array(cellCount);
   const dates: string[] = [];
+  const marked = new CellList();
 
   // Pass 1: pool the window and run the day tests, one day in memory at a time.
   for (const d of days()) {
@@ -221,9 +222,12 @@ export function detectChanges(
       pooledHits[k] += hits[k];
       pooledPasses[k] += passes[k];
     }
-    if (flagChanges(ctx, hits, passes, marks, TODAY) > 0) countFlaggedDay(marks);
+    marked.size = 0;
+    flagChanges(ctx, hits, passes, marks, TODAY, marked);
+    countFlaggedDay(marks, marked);
   }
-  flagChanges(ctx, pooledHits, pooledPasses, marks, POOLED);
+  marked.size = 0;
+  flagChanges(ctx, pooledHits, pooledPasses, marks, POOLED, marked);
 
   let cellsObserved = 0;
   let observedBeams = 0;
@@ -305,11 +309,11 @@ function checkDay(d: DayCounters, cellCount: number, dates: string[], windowDays
   }
 }
 
-/** Moves today's flags into the per-cell flagged-day counts (saturating at 63 days). */
-function countFlaggedDay(marks: Uint8Array): void {
-  for (let k = 0; k < marks.length; k++) {
+/** Moves today's flags of the marked cells into their flagged-day counts (saturating at 63 days). */
+function countFlaggedDay(marks: Uint8Array, marked: CellList): void {
+  for (let q = 0; q < marked.size; q++) {
+    const k = marked.data[q];
     const v = marks[k];
-    if ((v & TODAY) === 0) continue;
     const count = Math.min(MAX_DAYS_COUNTED, (v >> DAY_SHIFT) + 1);
     marks[k] = (v & POOLED) | (count << DAY_SHIFT);
   }

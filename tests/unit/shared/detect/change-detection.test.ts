@@ -159,7 +159,8 @@ describe('detectChanges on hand-made grids', () => {
     expect(zone.kind).toBe('new');
     expect(zone.persistence).toBe('persistent');
     expect([...zone.cells]).toEqual(rectCells(W, 20, 24, 27, 29));
-    // Exact cell-edge outline (shoelace formula): its area equals the cells' area.
+    // An exact cell-edge outline of a hole-free zone encloses exactly its cells (shoelace formula;
+    // common practice), so its area is cellCount × res².
     const outline = Float64Array.from(zone.outline.flat());
     expect(polygonArea(outline)).toBeCloseTo(zone.cellCount * RES * RES, 10);
     expect(zone.bbox).toEqual([20 * RES, 24 * RES, 28 * RES, 30 * RES].map((v) => expect.closeTo(v, 12)));
@@ -267,7 +268,8 @@ describe('detectChanges on hand-made grids', () => {
     // Act
     const zone = run(grid, days).zones[0];
 
-    // Assert: corners (20, 24) and (28, 30) in cells map to x = 10 − v·res, y = 5 + u·res.
+    // Assert: a 90° origin yaw maps grid (u, v) cells to x = 10 − v·res, y = 5 + u·res (rotation
+    // about the origin, DESIGN §4.1); corners (20, 24) and (28, 30) bound the box.
     const a = gridFrameToWorld(grid, 20, 24);
     const b = gridFrameToWorld(grid, 28, 30);
     expect(zone.bbox[0]).toBeCloseTo(Math.min(a.x, b.x), 9);

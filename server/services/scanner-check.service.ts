@@ -24,9 +24,26 @@ const MIN_DAYS = 3;
 const MIN_FLEET = 3;
 /** Floor of the fleet's spread, agreement units: fleets that agree very closely do not make tiny dips look extreme (product choice). */
 const MIN_SPREAD = 0.005;
+/** A flagged robot explains at least this much less (share of returns) than the others in the same places (product choice). */
+const MIN_DIFFERENCE = 0.03;
 /** A block counts as "the fleet agrees with the map here" at this agreement with at least this many returns (product choice). */
 const GOOD_BLOCK_AGREEMENT = 0.9;
 const GOOD_BLOCK_MIN_RETURNS = 20;
+
+/** The scanner of a robot with the lowest share of explained returns over the rows given. */
+function worstScanner(rows: DailyStat[]): string | null {
+  const by = new Map<string, { r: number; e: number }>();
+  for (const row of rows) {
+    const v = by.get(row.scanner) ?? { r: 0, e: 0 };
+    v.r += row.returns;
+    v.e += row.explained;
+    by.set(row.scanner, v);
+  }
+  let worst: string | null = null;
+  let lowest = Infinity;
+  for (const [scanner, v] of by) if (v.r > 0 && v.e / v.r < lowest) [worst, lowest] = [scanner, v.e / v.r];
+  return worst;
+}
 
 function decodeCounts(data: Buffer): Uint32Array {
   const raw = inflateRawSync(data);
@@ -51,47 +68,78 @@ export class ScannerCheckService {
     private readonly audit: AuditService,
   ) {}
 
-  /** Runs the check for a site; returns the scanners flagged by this run. */
+  /**
+   * Runs the check for a site; returns the scanners flagged by this run. Robots drive different
+   * routes past different parts of a building, so a robot is compared with the rest of the fleet
+   * in the same places: per day, over the agreement blocks both saw, the robot's share of
+   * explained returns minus the others' share there. That difference is scored against the
+   * fleet's differences of the day (robust z); a robot is flagged when its median z over the
+   * recent days is at or below −scannerFlagZ and it explains clearly fewer returns than the others.
+   */
   async run(site: Site, now = new Date()) {
     const version = await this.mapVersions.activeFloor(site.id);
     if (!version) return { flagged: [] as string[], checked: 0 };
     const settings = siteSettings(site);
     const days = completeDays(site.timezone, now, CHECK_DAYS);
-    const rows = await this.db.getRepository(DailyStat).find({ where: { siteId: site.id, mapVersionId: version.id, day: In(days) } });
     const robots = new Map((await this.db.getRepository(Robot).findBy({ siteId: site.id })).map((r) => [r.id, r]));
     const flags = await this.db.getRepository(RobotFlag).find({ where: { robotId: In([...robots.keys()]) }, order: { raisedAt: 'DESC' } });
+    const stats = await this.db.getRepository(DailyStat).find({ where: { siteId: site.id, mapVersionId: version.id, day: In(days) } });
+    const blocks = await this.db.getRepository(AgreementBlocks).find({ where: { mapVersionId: version.id, day: In(days) } });
 
-    // Agreement per day per scanner with enough returns.
-    const perDay = new Map<string, Map<string, number>>();
-    for (const r of rows) {
-      if (r.returns < settings.scannerMinReturnsPerDay) continue;
-      const key = `${r.robotId}|${r.scanner}`;
-      let day = perDay.get(r.day);
-      if (!day) perDay.set(r.day, (day = new Map()));
-      day.set(key, r.explained / r.returns);
+    // Per day: each robot's difference from the rest of the fleet over the blocks both saw.
+    const perDay = new Map<string, Map<string, { agreement: number; others: number; diff: number }>>();
+    for (const day of days) {
+      const today = blocks.filter((b) => b.day === day);
+      if (today.length < MIN_FLEET) continue;
+      const counts = new Map(today.map((b) => [b.robotId, decodeCounts(b.data)]));
+      const n = Math.min(...[...counts.values()].map((c) => c.length)) / 2;
+      const total = new Float64Array(2 * n);
+      for (const c of counts.values()) for (let k = 0; k < 2 * n; k++) total[k] += c[k];
+      const result = new Map<string, { agreement: number; others: number; diff: number }>();
+      for (const [robotId, c] of counts) {
+        let ownReturns = 0;
+        let ownExplained = 0;
+        let otherReturns = 0;
+        let otherExplained = 0;
+        for (let k = 0; k < n; k++) {
+          const oR = total[k] - c[k];
+          if (c[k] < GOOD_BLOCK_MIN_RETURNS || oR < GOOD_BLOCK_MIN_RETURNS) continue;
+          ownReturns += c[k];
+          ownExplained += c[n + k];
+          otherReturns += oR;
+          otherExplained += total[n + k] - c[n + k];
+        }
+        if (ownReturns < settings.scannerMinReturnsPerDay || otherReturns === 0) continue;
+        const agreement = ownExplained / ownReturns;
+        const others = otherExplained / otherReturns;
+        result.set(robotId, { agreement, others, diff: agreement - others });
+      }
+      if (result.size >= MIN_FLEET) perDay.set(day, result);
     }
+
     const flagged: string[] = [];
-    const scanners = new Set(rows.map((r) => `${r.robotId}|${r.scanner}`));
-    for (const key of scanners) {
-      const [robotId, scanner] = key.split('|');
-      const own = flags.filter((f) => f.robotId === robotId && f.scanner === scanner);
+    let checked = 0;
+    for (const [robotId, robot] of robots) {
+      const own = flags.filter((f) => f.robotId === robotId);
       if (own.some((f) => f.status === 'active')) continue;
-      // Days before the last clearing belong to the fault that was fixed.
+      // Days up to the last clearing belong to the fault that was fixed.
       const clearedAt = own.find((f) => f.clearedAt)?.clearedAt;
       const clearedDay = clearedAt ? localDay(site.timezone, clearedAt) : null;
       const figures: FlagFigures['days'] = [];
-      for (const day of days) {
-        const fleet = perDay.get(day);
-        const a = fleet?.get(key);
-        if (!fleet || a === undefined || fleet.size < MIN_FLEET) continue;
-        if (clearedDay && day <= clearedDay) continue;
-        const values = [...fleet.values()];
-        figures.push({ day, agreement: a, fleetMedian: median(values), z: robustZScore(a, values, MIN_SPREAD) });
+      for (const [day, fleet] of perDay) {
+        const me = fleet.get(robotId);
+        if (!me || (clearedDay && day <= clearedDay)) continue;
+        const diffs = [...fleet.values()].map((v) => v.diff);
+        figures.push({ day, agreement: me.agreement, fleetMedian: me.others, z: robustZScore(me.diff, diffs, MIN_SPREAD) });
       }
+      if (figures.length === 0) continue;
+      checked++;
       if (figures.length < MIN_DAYS) continue;
       const medianZ = median(figures.map((f) => f.z));
-      if (medianZ > -settings.scannerFlagZ) continue;
-      const robot = robots.get(robotId)!;
+      const medianDiff = median(figures.map((f) => f.agreement - f.fleetMedian));
+      if (medianZ > -settings.scannerFlagZ || medianDiff > -MIN_DIFFERENCE) continue;
+      // The blocks are per robot; the scanner to check is the robot's scanner that explains least.
+      const scanner = worstScanner(stats.filter((r) => r.robotId === robotId)) ?? robot.mounts[0]?.name ?? 'front';
       const mount = await this.estimateMount(site, version, robot, scanner, figures.map((f) => f.day)).catch(() => null);
       const flag = this.db.getRepository(RobotFlag).create({
         id: newId(),
@@ -99,16 +147,16 @@ export class ScannerCheckService {
         scanner,
         status: 'active',
         raisedAt: now,
-        figures: { days: figures, meanAgreement: figures.reduce((s, f) => s + f.agreement, 0) / figures.length, fleetMedian: median(figures.map((f) => f.fleetMedian)), medianZ },
+        figures: { days: figures, meanAgreement: figures.reduce((a, f) => a + f.agreement, 0) / figures.length, fleetMedian: median(figures.map((f) => f.fleetMedian)), medianZ },
         mount,
       });
       await this.db.transaction(async (m) => {
         await m.save(flag);
-        await this.audit.record(null, { action: 'robot.flag', targetType: 'robot', targetId: robotId, organizationId: site.organizationId, summary: `Scanner check advised for ${robot.name} (${scanner}) at ${site.name}: agreement ${(100 * flag.figures.meanAgreement).toFixed(1)} % against the fleet's ${(100 * flag.figures.fleetMedian).toFixed(1)} %.` }, m);
+        await this.audit.record(null, { action: 'robot.flag', targetType: 'robot', targetId: robotId, organizationId: site.organizationId, summary: `Scanner check advised for ${robot.name} (${scanner}) at ${site.name}: agreement ${(100 * flag.figures.meanAgreement).toFixed(1)} % where the rest of the fleet has ${(100 * flag.figures.fleetMedian).toFixed(1)} %.` }, m);
       });
       flagged.push(`${robot.name}/${scanner}`);
     }
-    return { flagged, checked: scanners.size };
+    return { flagged, checked };
   }
 
   /** Mount error of one scanner from its sampled scans on `days`, fitted where the rest of the fleet agrees with the map. */
@@ -252,7 +300,7 @@ export function flagView(f: RobotFlag) {
 
 /** "scanner check advised — mount appears turned 1.4° ± 0.1°" and the like. */
 export function mountSentence(f: RobotFlag): string {
-  const head = `Scanner check advised: agreement ${(100 * f.figures.meanAgreement).toFixed(1)} % against the fleet's ${(100 * f.figures.fleetMedian).toFixed(1)} %`;
+  const head = `Scanner check advised: ${(100 * f.figures.meanAgreement).toFixed(1)} % of returns explained where the rest of the fleet has ${(100 * f.figures.fleetMedian).toFixed(1)} %`;
   const m = f.mount;
   if (!m || !m.converged) return `${head}; the mount error could not be estimated.`;
   const yaw = (m.dyaw * 180) / Math.PI;

@@ -47,7 +47,8 @@ interface DemoSite {
 const LIGHT = { beamStep: 4, scansPerRobotPerDay: 60 };
 
 const SITES: DemoSite[] = [
-  { org: 'Ambergate Provisions', name: 'Fennick Cross DC', city: 'Fennick Cross', timezone: 'Europe/London', sim: { seed: 7101, robots: 4, ...LIGHT, mountErrors: [{ robot: 'AMR-02', scanner: 'front', dyaw: (1.4 * Math.PI) / 180 }] } },
+  // Pallets in the staging lane on about two days in five: an intermittent change to leave out of the map.
+  { org: 'Ambergate Provisions', name: 'Fennick Cross DC', city: 'Fennick Cross', timezone: 'Europe/London', sim: { seed: 7101, robots: 4, ...LIGHT, changes: { palletDays: [3, 5, 8, 9, 13, 16, 17, 21, 24, 26] }, mountErrors: [{ robot: 'AMR-02', scanner: 'front', dyaw: (1.4 * Math.PI) / 180 }] } },
   { org: 'Ambergate Provisions', name: 'Tarrow Heath Cold Store', city: 'Tarrow Heath', timezone: 'Europe/London', sim: { seed: 7202, robots: 3, site: { width: 48, depth: 32 }, ...LIGHT, changes: { missingFromDay: null, fenceFromDay: 20, unmappedFromDay: null } } },
   { org: 'Corvane Parts & Supply', name: 'Lowen Harbour Hub', city: 'Lowen Harbour', timezone: 'America/Chicago', sim: { seed: 7303, robots: 3, ...LIGHT } },
   { org: 'Corvane Parts & Supply', name: 'Brindle Ford Crossdock', city: 'Brindle Ford', timezone: 'America/Denver', sim: { seed: 7404, robots: 2, site: { width: 40, depth: 30 }, ...LIGHT, changes: { missingFromDay: null, fenceFromDay: null, palletDays: null, unmappedFromDay: null } } },

@@ -131,3 +131,49 @@ describe('map health, scanner check and zone tracking on a simulated site', () =
     expect(await t.dataSource.getRepository(JobRun).countBy({ job: 'retention', status: 'succeeded' })).toBe(1);
   });
 });
+
+describe('an unchanged building seen by a fleet with one turned scanner', () => {
+  let t: TestApp;
+  let site: Site;
+
+  beforeAll(async () => {
+    vi.useFakeTimers({ now: NOW, toFake: ['Date'] });
+    t = await createTestApp();
+    const ids = await demoIds(t.dataSource);
+    const scenario = createScenario({
+      seed: 5150, days: DAYS, startDate: '2026-11-04', siteTimezone: 'Europe/London', robots: 4, beamStep: 4, scansPerRobotPerDay: 60,
+      site: { width: 40, depth: 30 }, changes: { missingFromDay: null, fenceFromDay: null, palletDays: null, unmappedFromDay: null },
+      mountErrors: [{ robot: 'AMR-03', scanner: 'front', dyaw: (-TURN_DEG * Math.PI) / 180 }],
+    });
+    site = await t.dataSource.getRepository(Site).findOneByOrFail({ id: ids.ambergateSite });
+    await t.dataSource.getRepository(Robot).delete({ siteId: site.id });
+    for (const r of scenario.truth.robots) await t.services.robots.create(ids.admin, site.id, { name: r.name, model: 'Sim', mounts: r.mounts.map(({ name, x, y, yaw }) => ({ name, x, y, yaw })) });
+    const map = await t.services.mapVersions.upload(ids.admin, site.id, {
+      kind: 'floor', label: 'sim', image: { originalname: 'map.pgm', buffer: Buffer.from(encodePgm(gridToImage(scenario.map))) },
+      metadataFile: { originalname: 'map.yaml', buffer: Buffer.from(formatMapMetadata(scenario.metadata)) },
+    });
+    await t.services.mapVersions.activate(ids.admin, site.id, map.id);
+    for (let day = 0; day < DAYS; day++) {
+      await t.services.ingest.countLines(site, (function* () {
+        for (const s of scenario.scansForDay(day)) yield JSON.stringify(s);
+      })(), `day-${day}.jsonl`, NOW);
+    }
+  }, 240_000);
+  afterAll(async () => {
+    vi.useRealTimers();
+    await t.close();
+  });
+
+  it('when the nightly job runs, then the robot is flagged, the building is not, and the map explains at least 95 % of returns', async () => {
+    const [run] = await t.services.jobRuns.detect('manual', site.id, NOW);
+    expect(run.figures).toMatchObject({ flagged: ['AMR-03/front'] });
+    // The turned scanner's ghosts stay out: no zone at all in a building that did not change.
+    expect(await t.dataSource.getRepository(Zone).countBy({ siteId: site.id })).toBe(0);
+    const health = await t.services.health.siteHealth(site, NOW);
+    // Stated bound for an unchanged building with people and forklift traffic (product choice, see README).
+    expect(health.score).toBeGreaterThan(95);
+    expect(health.band === 'good' || health.band === 'watch').toBe(true);
+    const flag = (await t.services.scannerCheck.flagsOf(site.id))[0];
+    expect((flag.mount!.dyaw * 180) / Math.PI).toBeCloseTo(-TURN_DEG, 0);
+  });
+});

@@ -232,6 +232,14 @@ export class DetectionService {
     };
   }
 
+  /** The cells of a zone as map indices j·width + i (i across, j up from the map's bottom row), ascending. */
+  async zoneCells(actor: Actor, siteId: string, zoneId: string): Promise<Int32Array> {
+    const { zone } = await this.find(actor, siteId, zoneId);
+    // The blob is left out of ordinary reads (select: false); fetch it on its own.
+    const { cells } = await this.db.getRepository(Zone).findOneOrFail({ where: { id: zone.id }, select: { id: true, cells: true } });
+    return decodeCells(cells);
+  }
+
   /** Moves a zone to a new status with a note, checking that the move is allowed from where it is. */
   async changeStatus(actor: Actor, siteId: string, zoneId: string, to: 'acknowledged' | 'dismissed', note: string) {
     const { site, zone } = await this.find(actor, siteId, zoneId);

@@ -32,7 +32,8 @@ function addSaturating(into: Uint32Array, from: Uint32Array) {
   for (let k = 0; k < into.length; k++) into[k] = Math.min(into[k] + from[k], UINT32_MAX);
 }
 
-function decodeCounts(data: Buffer): Uint32Array {
+/** Reads stored agreement-block counts (deflated little-endian uint32). */
+export function decodeCounts(data: Buffer): Uint32Array {
   const raw = inflateRawSync(data);
   const out = new Uint32Array(raw.length / 4);
   for (let k = 0; k < out.length; k++) out[k] = raw.readUInt32LE(4 * k);

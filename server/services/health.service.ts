@@ -1,9 +1,9 @@
-import { inflateRawSync } from 'node:zlib';
 import { In, type DataSource } from 'typeorm';
 import { forecastHealth, healthBand, healthScore } from '../../shared/health/score.js';
 import { AgreementBlocks, DailyStat, RobotFlag, Robot, Site, Zone } from '../entities/index.js';
 import { ACTIVE_ZONE_STATUSES } from '../entities/zone.entity.js';
 import type { Actor } from '../auth/actor.js';
+import { decodeCounts } from './evidence-store.js';
 import type { MapVersionsService } from './map-versions.service.js';
 import type { SitesService } from './sites.service.js';
 import { addDays, completeDays, daysBetween } from './site-days.js';
@@ -53,11 +53,11 @@ export class HealthService {
     const explained = new Array<number>(n).fill(0);
     for (const r of rows) {
       if (r.blockCells !== blockCells) continue;
-      const raw = inflateRawSync(r.data);
-      if (raw.length !== 8 * n) continue;
+      const counts = decodeCounts(r.data);
+      if (counts.length !== 2 * n) continue;
       for (let k = 0; k < n; k++) {
-        returns[k] += raw.readUInt32LE(4 * k);
-        explained[k] += raw.readUInt32LE(4 * (n + k));
+        returns[k] += counts[k];
+        explained[k] += counts[n + k];
       }
     }
     return { mapVersionId: version.id, days: window, blockCells, blockM: blockCells * version.resolution, cols, rows: rowsCount, returns, agreement: returns.map((r, k) => (r > 0 ? explained[k] / r : null)) };

@@ -150,24 +150,31 @@ export class IngestService {
 
   /**
    * Counts recorded scan lines (the demo seed, the command line) against the site's active floor
-   * map as one batch of source 'upload'; returns its figures. Same policy as uploads.
+   * map as one batch of source 'upload'; returns its figures. Same policy as uploads. `lines` may
+   * be an async iterable (a file streamed line by line); if it fails part-way, nothing is counted.
    */
-  async countLines(site: Site, lines: Iterable<string>, fileName: string, now = new Date()) {
+  async countLines(site: Site, lines: Iterable<string> | AsyncIterable<string>, fileName: string, now = new Date()) {
     const map = await this.activeMap(site);
     const { version } = map;
     const acc = await this.accumulator(site, map, { now });
     const hash = createHash('sha256');
     let lineNo = 0;
     let lastYield = Date.now();
-    for (const line of lines) {
-      hash.update(line).update('\n');
-      acc.addLine(++lineNo, line);
-      // Database calls here resolve at once, so without this the event loop would starve and
-      // the server could not answer requests while a long recording is counted.
-      if (Date.now() - lastYield > 50) {
-        await new Promise((resolve) => setImmediate(resolve));
-        lastYield = Date.now();
+    try {
+      for await (const line of lines) {
+        hash.update(line).update('\n');
+        acc.addLine(++lineNo, line);
+        // Sync lines and database calls resolve at once, so without this the event loop would
+        // starve and the server could not answer requests while a long recording is counted.
+        if (Date.now() - lastYield > 50) {
+          await new Promise((resolve) => setImmediate(resolve));
+          lastYield = Date.now();
+        }
       }
+    } catch (e) {
+      // A source that breaks off (a damaged file) leaves nothing behind.
+      acc.spill.close();
+      throw e;
     }
     const id = newId();
     const contentHash = hash.digest('hex');

@@ -8,6 +8,7 @@ import type { Actor } from '../auth/actor.js';
 import { AgreementBlocks, DailyStat, MapVersion, Robot, RobotFlag, ScanSample, Site } from '../entities/index.js';
 import type { FlagFigures, MountFigures } from '../entities/robot-flag.entity.js';
 import { conflict, notFound } from '../http-error.js';
+import { decodeCounts } from './evidence-store.js';
 import type { AuditService } from './audit.service.js';
 import { newId } from './ids.js';
 import type { MapVersionsService } from './map-versions.service.js';
@@ -43,13 +44,6 @@ function worstScanner(rows: DailyStat[]): string | null {
   let lowest = Infinity;
   for (const [scanner, v] of by) if (v.r > 0 && v.e / v.r < lowest) [worst, lowest] = [scanner, v.e / v.r];
   return worst;
-}
-
-function decodeCounts(data: Buffer): Uint32Array {
-  const raw = inflateRawSync(data);
-  const out = new Uint32Array(raw.length / 4);
-  for (let k = 0; k < out.length; k++) out[k] = raw.readUInt32LE(4 * k);
-  return out;
 }
 
 /**

@@ -1,11 +1,8 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { gridToImage } from '../../shared/grid/image-to-grid.js';
-import { formatMapMetadata } from '../../shared/grid/map-metadata.js';
-import { encodePgm } from '../../shared/grid/pgm.js';
-import { createScenario } from '../../shared/sim/scenario.js';
-import { EvidenceChunk, JobRun, Robot, Site, Zone } from '../../server/entities/index.js';
-import { createTestApp, demoIds, signIn, type TestApp } from './helpers/test-app.js';
+import { EvidenceChunk, JobRun, Site, Zone } from '../../server/entities/index.js';
+import { simulatedSite } from './helpers/simulated-site.js';
+import { createTestApp, signIn, type TestApp } from './helpers/test-app.js';
 
 // A small simulated site of our own (the warehouse simulator, fixed seed) whose AMR-02 front
 // scanner is turned 1.4° on purpose, counted through the ingest service and then analysed by
@@ -26,26 +23,11 @@ describe('map health, scanner check and zone tracking on a simulated site', () =
     // The routes read the clock; only Date is faked, so timers and sockets run as usual.
     vi.useFakeTimers({ now: NOW, toFake: ['Date'] });
     t = await createTestApp();
-    const ids = await demoIds(t.dataSource);
-    const scenario = createScenario({
+    site = await simulatedSite(t, {
       seed: 4242, days: DAYS, startDate: '2026-11-04', siteTimezone: 'Europe/London', robots: 4, beamStep: 4, scansPerRobotPerDay: 60,
       site: { width: 40, depth: 30 }, changes: { missingFromDay: 4, fenceFromDay: 6, unmappedFromDay: null },
       mountErrors: [{ robot: 'AMR-02', scanner: 'front', dyaw: (TURN_DEG * Math.PI) / 180 }],
-    });
-    site = await t.dataSource.getRepository(Site).findOneByOrFail({ id: ids.ambergateSite });
-    await t.dataSource.getRepository(Robot).delete({ siteId: site.id });
-    for (const r of scenario.truth.robots) await t.services.robots.create(ids.admin, site.id, { name: r.name, model: 'Sim', mounts: r.mounts.map(({ name, x, y, yaw }) => ({ name, x, y, yaw })) });
-    const map = await t.services.mapVersions.upload(ids.admin, site.id, {
-      kind: 'floor', label: 'sim', image: { originalname: 'map.pgm', buffer: Buffer.from(encodePgm(gridToImage(scenario.map))) },
-      metadataFile: { originalname: 'map.yaml', buffer: Buffer.from(formatMapMetadata(scenario.metadata)) },
-    });
-    await t.services.mapVersions.activate(ids.admin, site.id, map.id);
-    for (let day = 0; day < DAYS; day++) {
-      const lines = (function* () {
-        for (const s of scenario.scansForDay(day)) yield JSON.stringify(s);
-      })();
-      await t.services.ingest.countLines(site, lines, `day-${day}.jsonl`, NOW);
-    }
+    }, NOW);
     nadia = await signIn(t.app, 'nadia.manager@ambergate.example', 'demo-manager-2026');
     tomas = await signIn(t.app, 'tomas.mapper@kestrelway.example', 'demo-mapper-2026');
     owen = await signIn(t.app, 'owen.viewer@ambergate.example', 'demo-viewer-2026');
@@ -139,25 +121,11 @@ describe('an unchanged building seen by a fleet with one turned scanner', () => 
   beforeAll(async () => {
     vi.useFakeTimers({ now: NOW, toFake: ['Date'] });
     t = await createTestApp();
-    const ids = await demoIds(t.dataSource);
-    const scenario = createScenario({
+    site = await simulatedSite(t, {
       seed: 5150, days: DAYS, startDate: '2026-11-04', siteTimezone: 'Europe/London', robots: 4, beamStep: 4, scansPerRobotPerDay: 60,
       site: { width: 40, depth: 30 }, changes: { missingFromDay: null, fenceFromDay: null, palletDays: null, unmappedFromDay: null },
       mountErrors: [{ robot: 'AMR-03', scanner: 'front', dyaw: (-TURN_DEG * Math.PI) / 180 }],
-    });
-    site = await t.dataSource.getRepository(Site).findOneByOrFail({ id: ids.ambergateSite });
-    await t.dataSource.getRepository(Robot).delete({ siteId: site.id });
-    for (const r of scenario.truth.robots) await t.services.robots.create(ids.admin, site.id, { name: r.name, model: 'Sim', mounts: r.mounts.map(({ name, x, y, yaw }) => ({ name, x, y, yaw })) });
-    const map = await t.services.mapVersions.upload(ids.admin, site.id, {
-      kind: 'floor', label: 'sim', image: { originalname: 'map.pgm', buffer: Buffer.from(encodePgm(gridToImage(scenario.map))) },
-      metadataFile: { originalname: 'map.yaml', buffer: Buffer.from(formatMapMetadata(scenario.metadata)) },
-    });
-    await t.services.mapVersions.activate(ids.admin, site.id, map.id);
-    for (let day = 0; day < DAYS; day++) {
-      await t.services.ingest.countLines(site, (function* () {
-        for (const s of scenario.scansForDay(day)) yield JSON.stringify(s);
-      })(), `day-${day}.jsonl`, NOW);
-    }
+    }, NOW);
   }, 240_000);
   afterAll(async () => {
     vi.useRealTimers();

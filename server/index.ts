@@ -40,6 +40,11 @@ async function main() {
   }
   const jobs = scheduleJobs({ services, dataSource, log });
 
+  // Idle keep-alive connections stay open longer than a load balancer's (common practice: above its
+  // 60 s), so a client never reuses a connection the server is closing at that moment.
+  server.keepAliveTimeout = 65_000;
+  server.headersTimeout = 66_000;
+
   let stopping = false;
   const stop = (signal: string) => {
     if (stopping) return;

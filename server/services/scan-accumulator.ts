@@ -14,7 +14,7 @@ export const MAX_REJECTED_KEPT = 200;
 /** Raw scans kept per robot, scanner and day in one batch, for mount estimation (product choice). */
 export const SAMPLE_PER_BATCH = 24;
 /** Memory for full-size counters of (robot, day) pairs in flight; older pairs are packed (product choice). */
-const RESIDENT_BUDGET_BYTES = 160 * 1024 * 1024;
+const RESIDENT_BUDGET_BYTES = 48 * 1024 * 1024;
 
 /** Per robot, scanner and day: what one batch added. */
 export interface PendingStat {

@@ -41,9 +41,12 @@ export async function run(): Promise<void> {
   const dataDir = await mkdtemp(path.join(os.tmpdir(), 'driftline-bench-'));
   const port = await freePort();
   const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
-    env: { ...process.env, DRIFTLINE_DATA_DIR: dataDir, PORT: String(port), DRIFTLINE_DEMO_EVIDENCE: 'false', LOG_LEVEL: 'warn', NODE_ENV: 'production' },
+    env: { ...process.env, DRIFTLINE_DATA_DIR: dataDir, PORT: String(port), DRIFTLINE_DEMO_EVIDENCE: 'false', LOG_LEVEL: 'error', NODE_ENV: 'production' },
     stdio: ['ignore', 'ignore', 'inherit'],
     detached: true,
+  });
+  server.on('exit', (code, signal) => {
+    if (code !== 0 && signal !== 'SIGTERM') console.error(`the server stopped during the bench: exit code ${code}, signal ${signal}`);
   });
   const base = `http://127.0.0.1:${port}`;
   try {

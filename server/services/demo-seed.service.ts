@@ -141,7 +141,9 @@ export async function seedDemoEvidence(db: DataSource, services: Services, log: 
       const lines = (function* () {
         for (const scan of scenario.scansForDay(day)) yield JSON.stringify(scan);
       })();
-      const { figures } = await services.ingest.countLines(site, lines, fileName, today);
+      // Received at the end of the simulated day's shift, as a robot's upload would have been.
+      const [, shiftEnd] = scenario.workingWindow(day);
+      const { figures } = await services.ingest.countLines(site, lines, fileName, today, new Date(Math.min(shiftEnd, today.getTime())));
       scans += figures.scans;
     }
     progress.sitesDone++;

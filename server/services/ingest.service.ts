@@ -153,7 +153,7 @@ export class IngestService {
    * map as one batch of source 'upload'; returns its figures. Same policy as uploads. `lines` may
    * be an async iterable (a file streamed line by line); if it fails part-way, nothing is counted.
    */
-  async countLines(site: Site, lines: Iterable<string> | AsyncIterable<string>, fileName: string, now = new Date()) {
+  async countLines(site: Site, lines: Iterable<string> | AsyncIterable<string>, fileName: string, now = new Date(), receivedAt = now) {
     const map = await this.activeMap(site);
     const { version } = map;
     const acc = await this.accumulator(site, map, { now });
@@ -180,7 +180,7 @@ export class IngestService {
     const contentHash = hash.digest('hex');
     const counted = await this.commitAccumulated(version, site, acc, (raw) => {
       if (this.findReplay(raw, site.id, null, contentHash)) return false;
-      this.insertBatch(raw, { id, siteId: site.id, robotId: null, mapVersionId: version.id, source: 'upload', fileName, idempotencyKey: null, hash: contentHash, receivedAt: now, figures: acc.figures });
+      this.insertBatch(raw, { id, siteId: site.id, robotId: null, mapVersionId: version.id, source: 'upload', fileName, idempotencyKey: null, hash: contentHash, receivedAt, figures: acc.figures });
       return true;
     });
     return { counted, figures: acc.figures };

@@ -72,6 +72,7 @@ class InputError extends Error {}
 class UsageError extends InputError {}
 
 type Mount = Omit<ScannerMount, 'name'>;
+type MapFiles = Pick<Parameters<Services['mapVersions']['upload']>[2], 'image' | 'metadataFile'>;
 
 interface Args {
   map: string;
@@ -155,7 +156,7 @@ function describeFsError(what: string, file: string, e: unknown): InputError {
 }
 
 /** The map's YAML and image bytes as the upload form would send them. */
-async function readMapFiles(yamlPath: string) {
+async function readMapFiles(yamlPath: string): Promise<MapFiles> {
   let yamlText: Buffer;
   try {
     yamlText = await readFile(yamlPath);
@@ -308,8 +309,7 @@ async function setUpSite(db: DataSource, services: Services, args: Args, survey:
 }
 
 /** Uploads and activates the map through the map service; its refusal becomes an InputError. */
-async function installMap(services: Services, admin: Actor, site: Site, args: Args) {
-  const files = await readMapFiles(args.map);
+async function installMap(services: Services, admin: Actor, site: Site, args: Args, files: MapFiles) {
   try {
     const version = await services.mapVersions.upload(admin, site.id, { kind: 'floor', label: basename(args.map), ...files });
     return await services.mapVersions.activate(admin, site.id, version.id);
@@ -356,7 +356,7 @@ async function robotRows(db: DataSource, services: Services, site: Site, mapVers
 }
 
 /** Everything after the input checks: the pipeline on a fresh in-memory database. Returns the exit code. */
-async function analyze(args: Args, survey: Survey, io: AnalyzeIo): Promise<number> {
+async function analyze(args: Args, mapFiles: MapFiles, survey: Survey, io: AnalyzeIo): Promise<number> {
   // The start of the day after the last scan day: every scan's day is complete, as at the nightly run.
   const now = DateTime.fromMillis(survey.lastMs, { zone: args.timezone }).startOf('day').plus({ days: 1 }).toJSDate();
   const dataSource = await openDatabase({ database: ':memory:' });
@@ -364,7 +364,7 @@ async function analyze(args: Args, survey: Survey, io: AnalyzeIo): Promise<numbe
     // The test settings are exactly what this needs: in-memory database, no demo data, no mail, silent logs.
     const { services } = createApp({ config: testConfig(), dataSource, log: pino({ level: 'silent' }) });
     const { admin, site } = await setUpSite(dataSource, services, args, survey);
-    const version = await installMap(services, admin, site, args);
+    const version = await installMap(services, admin, site, args, mapFiles);
     io.out(
       `Map ${args.map} (${version.sourceFileName}): ${fmt(version.width)} × ${fmt(version.height)} cells at ${version.resolution} m/cell ` +
         `(${version.widthM} m × ${version.heightM} m), origin (${version.origin.x}, ${version.origin.y}) m, yaw ${version.origin.yaw} rad; ` +
@@ -468,6 +468,7 @@ export async function runAnalyze(argv: string[], io: AnalyzeIo = { out: (l) => c
       const isFolder = await stat(folder).then((s) => s.isDirectory(), () => false);
       if (!isFolder) throw new InputError(`Cannot write ${args.json}: the folder ${folder} does not exist.`);
     }
+    const mapFiles = await readMapFiles(args.map);
     const survey = await surveyLogs(args.scans);
     if (survey.valid === 0) {
       const why = survey.firstRejects.length ? `\n${survey.firstRejects.map((r) => `  ${r}`).join('\n')}` : '';
@@ -478,7 +479,7 @@ export async function runAnalyze(argv: string[], io: AnalyzeIo = { out: (l) => c
       const [robot, scanner] = [key.slice(0, cut), key.slice(cut + 1)];
       if (!survey.robots.get(robot)?.has(scanner)) throw new UsageError(`--mount names ${key}, but no valid scan in the logs comes from that robot and scanner.`);
     }
-    return await analyze(args, survey, io);
+    return await analyze(args, mapFiles, survey, io);
   } catch (e) {
     if (e instanceof InputError) {
       io.err(e.message);

@@ -1,5 +1,7 @@
 /** Shapes of the API's JSON, as the foundation contract describes them. Timestamps are ISO 8601 strings. */
 
+import type { HealthBand, HealthForecast as TrendForecast } from '../../shared/health/score';
+
 export type Role = 'admin' | 'mapper' | 'site_manager' | 'viewer';
 export type OrganizationKind = 'operator' | 'customer';
 
@@ -60,8 +62,50 @@ export interface InvitationPreview {
   expiresAt: string;
 }
 
-/** Health figures arrive with a later issue; until then the server sends null. */
-export type SiteHealth = null;
+/** A site's health band: the score against the site's limits (product defaults ≥ 97 good, 90–97 watch). */
+export type { HealthBand };
+
+/** One complete site-local day of the health series: score in percent (null without returns) and returns counted. */
+export interface HealthDay {
+  day: string;
+  score: number | null;
+  returns: number;
+}
+
+/**
+ * The fitted trend of the daily score (slope in points per day, days from the last complete day
+ * to the "remap advised" limit: 0 = already there, null = not falling; JSON turns an unbounded
+ * range into null) with the limit in percent and the site-local dates those days give.
+ */
+export interface HealthForecast extends TrendForecast {
+  threshold: number;
+  crossesOn: string | null;
+  earliestOn: string | null;
+  latestOn: string | null;
+}
+
+/** Zones of a site still to deal with (open, acknowledged or planned), counted by kind. */
+export interface ZoneCounts {
+  new: number;
+  missing: number;
+  unmapped: number;
+}
+
+/** A site's map health: score in percent over the last 7 complete days, its band, trend and what is open. */
+export interface SiteHealth {
+  score: number | null;
+  band: HealthBand | null;
+  bands: { goodMin: number; watchMin: number };
+  sentence: string;
+  /** Points against the 7 days before; null when either week had no returns. */
+  change7d: number | null;
+  returns7d: number;
+  series: HealthDay[];
+  forecast: HealthForecast | null;
+  openZones: ZoneCounts;
+  changedAreaM2: number;
+  flaggedRobots: number;
+}
 
 export interface Site {
   id: string;

@@ -29,3 +29,13 @@ export function canManageRobots(role: Role): boolean {
 export function rolesForOrganizationKind(kind: OrganizationKind): Role[] {
   return kind === 'operator' ? ['admin', 'mapper'] : ['site_manager', 'viewer'];
 }
+
+/** Returns true when the role may acknowledge a changed zone (the server checks again). */
+export function canAcknowledgeZones(role: Role): boolean {
+  return role === 'admin' || role === 'site_manager';
+}
+
+/** Returns true when the role may dismiss a changed zone with a reason, e.g. a volatile area (the server checks again). */
+export function canDismissZones(role: Role): boolean {
+  return role === 'admin' || role === 'mapper';
+}

@@ -41,6 +41,13 @@ export const routes: RouteRecordRaw[] = [
         meta: { title: 'Site' },
       },
       {
+        path: 'zones',
+        name: 'site-zones',
+        component: () => import('@/views/SiteZonesView.vue'),
+        props: true,
+        meta: { title: 'Zones' },
+      },
+      {
         path: 'robots',
         name: 'site-robots',
         component: () => import('@/views/SiteRobotsView.vue'),
@@ -82,6 +89,7 @@ export const routes: RouteRecordRaw[] = [
         component: () => import('@/views/AdminInvitationsView.vue'),
         meta: { title: 'Invitations' },
       },
+      { path: 'job-runs', name: 'admin-job-runs', component: () => import('@/views/AdminJobRunsView.vue'), meta: { title: 'Job runs' } },
       { path: 'audit', name: 'admin-audit', component: () => import('@/views/AdminAuditView.vue'), meta: { title: 'Audit log' } },
     ],
   },

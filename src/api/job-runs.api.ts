@@ -1,0 +1,51 @@
+import { apiRequest } from './client';
+
+export type JobName = 'detection' | 'retention';
+export type JobTrigger = 'schedule' | 'manual' | 'startup';
+export type JobRunStatus = 'running' | 'succeeded' | 'failed';
+
+/** What a detection run reports: active map version number, days pooled, robots left out, zones found, scanners flagged. */
+export interface DetectionRunFigures {
+  mapVersion: number | null;
+  days: number;
+  excludedRobots: number;
+  candidates: number;
+  zonesNew: number;
+  zonesUpdated: number;
+  zonesCleared: number;
+  flagged: string[];
+  skipped?: string;
+}
+
+/** What a retention run reports: stored items dropped because they were older than the sites' retention. */
+export interface RetentionRunFigures {
+  chunksDeleted: number;
+  blocksDeleted: number;
+  samplesDeleted: number;
+}
+
+/** One run of a scheduled job; durations in milliseconds, figures as the job reported them. */
+export interface JobRun {
+  id: string;
+  job: JobName;
+  siteId: string | null;
+  siteName: string | null;
+  trigger: JobTrigger;
+  status: JobRunStatus;
+  startedAt: string;
+  finishedAt: string | null;
+  durationMs: number | null;
+  error: string | null;
+  /** Detection or retention figures by `job`; null while running or after a failure. */
+  figures: Partial<DetectionRunFigures & RetentionRunFigures> | null;
+}
+
+/** Returns the newest job runs, at most `limit`, optionally of one job (admin only). */
+export async function listJobRuns(limit = 100, job?: JobName): Promise<JobRun[]> {
+  return (await apiRequest<{ runs: JobRun[] }>('/job-runs', { query: { limit, job } })).runs;
+}
+
+/** Starts a job in the background, detection for one site or all (admin only); poll the list for its run. */
+export async function startJobRun(job: JobName, siteId?: string): Promise<void> {
+  await apiRequest<unknown>('/job-runs', { method: 'POST', body: siteId ? { job, siteId } : { job } });
+}

@@ -1,0 +1,31 @@
+/** Readable summaries of what a job run did. */
+import type { JobRun } from '@/api/job-runs.api';
+
+const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
+
+/** Returns a duration in milliseconds as "850 ms", "3.5 s" or "2 min 05 s". */
+export function duration(ms: number): string {
+  if (ms < 1000) return `${Math.round(ms)} ms`;
+  if (ms < 60_000) return `${(ms / 1000).toFixed(1)} s`;
+  const seconds = Math.round(ms / 1000);
+  return `${Math.floor(seconds / 60)} min ${String(seconds % 60).padStart(2, '0')} s`;
+}
+
+/** Returns the figures of a run in a sentence ("14 days on map v1: 12 zones found (12 new, 0 updated, 0 no longer seen); scanner check advised for AMR-02/front"). */
+export function runFigures(run: JobRun): string {
+  const f = run.figures;
+  if (run.status === 'running') return 'running…';
+  if (!f) return run.status === 'failed' ? 'no figures (the run failed)' : 'no figures recorded';
+  if (run.job === 'retention') {
+    return `dropped ${plural(f.chunksDeleted ?? 0, 'evidence chunk')}, ${plural(f.blocksDeleted ?? 0, 'agreement block')}, ${plural(f.samplesDeleted ?? 0, 'scan sample')} past retention`;
+  }
+  const parts: string[] = [];
+  if (f.skipped) parts.push(f.skipped);
+  else {
+    const map = f.mapVersion === null || f.mapVersion === undefined ? 'no active map' : `map v${f.mapVersion}`;
+    parts.push(`${plural(f.days ?? 0, 'day')} on ${map}: ${plural(f.candidates ?? 0, 'zone')} found (${f.zonesNew ?? 0} new, ${f.zonesUpdated ?? 0} updated, ${f.zonesCleared ?? 0} no longer seen)`);
+    if (f.excludedRobots) parts.push(`${plural(f.excludedRobots, 'flagged robot')} left out`);
+  }
+  if (f.flagged && f.flagged.length > 0) parts.push(`scanner check advised for ${f.flagged.join(', ')}`);
+  return parts.join('; ');
+}

@@ -23,7 +23,9 @@ export function runFigures(run: JobRun): string {
   if (f.skipped) parts.push(f.skipped);
   else {
     const map = f.mapVersion === null || f.mapVersion === undefined ? 'no active map' : `map v${f.mapVersion}`;
-    parts.push(`${plural(f.days ?? 0, 'day')} on ${map}: ${plural(f.candidates ?? 0, 'zone')} found (${f.zonesNew ?? 0} new, ${f.zonesUpdated ?? 0} updated, ${f.zonesCleared ?? 0} no longer seen)`);
+    const found = f.candidates ? `${plural(f.candidates, 'zone')} found (${f.zonesNew ?? 0} new, ${f.zonesUpdated ?? 0} updated)` : 'no changed zone found';
+    const gone = f.zonesCleared ? `, ${plural(f.zonesCleared, 'zone')} no longer seen` : '';
+    parts.push(`${plural(f.days ?? 0, 'day')} on ${map}: ${found}${gone}`);
     if (f.excludedRobots) parts.push(`${plural(f.excludedRobots, 'flagged robot')} left out`);
   }
   if (f.flagged && f.flagged.length > 0) parts.push(`scanner check advised for ${f.flagged.join(', ')}`);

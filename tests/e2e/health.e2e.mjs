@@ -104,7 +104,7 @@ export const tests = [
       await openTab(page, 'Zones');
       const table = page.getByRole('table', { name: 'Zones' });
       await table.waitFor();
-      const openRow = table.locator('tbody tr').filter({ hasText: /\bopen\b/ }).first();
+      const openRow = table.locator('tbody tr').filter({ has: page.getByText('open', { exact: true }) }).first();
       await openRow.waitFor();
       const label = (await openRow.locator('td').first().innerText()).trim();
       assert(/^Z-\d+$/.test(label), `expected a zone label in the first column, got “${label}”`);
@@ -147,7 +147,7 @@ export const tests = [
       await card.getByRole('button', { name: 'Clear after maintenance' }).click();
       await card.getByRole('button', { name: 'Clear flag' }).click();
       await card.getByText('Say what was done').waitFor();
-      await card.getByRole('textbox').last().fill('Front window cleaned, mount re-aligned to the bracket marks.');
+      await card.getByLabel('What was done').fill('Front window cleaned, mount re-aligned to the bracket marks.');
       await card.getByRole('button', { name: 'Clear flag' }).click();
       await expectText(page, 'Scanner flag cleared');
       await card.getByTestId('flag-summary').waitFor({ state: 'detached' });
@@ -191,7 +191,7 @@ export const tests = [
       await openSite(page, flaggedSite);
       await openTab(page, 'Zones');
       const zones = page.getByRole('table', { name: 'Zones' });
-      const row = zones.locator('tbody tr').filter({ hasText: /\bopen\b/ }).first();
+      const row = zones.locator('tbody tr').filter({ has: page.getByText('open', { exact: true }) }).first();
       await row.waitFor();
       const label = (await row.locator('td').first().innerText()).trim();
       await row.click();
@@ -220,7 +220,7 @@ export const tests = [
       await table.waitFor();
       await table.getByText('Change detection').first().waitFor();
       await table.getByText(flaggedSite).first().waitFor();
-      await table.getByText(/\d+ days? on map v\d+: \d+ zones? found/).first().waitFor();
+      await table.getByText(/\d+ days? on map v\d+: (\d+ zones? found|no changed zone found)/).first().waitFor();
       await table.getByText(/scanner check advised for AMR-02/).first().waitFor();
       await screenshot('job-runs.png');
 

@@ -44,7 +44,7 @@ export function zoneStatusTag(status: ZoneStatus): { label: string; tone: TagTon
 
 /** The status filter's choices, 'active' (still to deal with) first. */
 export const zoneStatusFilters: readonly { value: ZoneStatusFilter; label: string }[] = [
-  { value: 'active', label: 'Still to deal with (open, acknowledged, planned)' },
+  { value: 'active', label: 'still to deal with' },
   ...(Object.keys(statusTags) as ZoneStatus[]).map((value) => ({ value, label: statusTags[value].label })),
 ];
 

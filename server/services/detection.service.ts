@@ -107,7 +107,8 @@ export class DetectionService {
     const window = completeDays(site.timezone, now, settings.detectionWindowDays);
     const days = this.store.daysWithEvidence(version.id, window[0], window[window.length - 1]);
     if (days.length === 0) return { ...empty, mapVersion: version.version, flagged, skipped: 'No evidence in the detection window.' };
-    const excluded = await this.health.flaggedRobotIds(site.id);
+    const exclusions = await this.health.exclusions(site.id);
+    const robotIds = await this.robotIdsWithEvidence(version.id);
     const grid = await this.mapVersions.grid(version);
     const field = await this.mapVersions.distanceField(version);
     const store = this.store;
@@ -117,7 +118,7 @@ export class DetectionService {
       for (const day of days) {
         counters.hits.fill(0);
         counters.passes.fill(0);
-        store.loadIntoSync(version.id, [day], grid.width, grid.height, counters, excluded);
+        store.loadIntoSync(version.id, [day], grid.width, grid.height, counters, robotIds.filter((r) => exclusions.excludes(r, day)));
         yield { day, hits: counters.hits, passes: counters.passes };
       }
     };
@@ -125,7 +126,12 @@ export class DetectionService {
     const result = detectChanges(grid, field.values, dayIterator, { windowDays: settings.detectionWindowDays, toleranceM: settings.agreementToleranceM });
     const tracked = await this.track(site, version, result.zones, days[days.length - 1], settings.clearZoneAfterRuns);
     this.log.info({ site: site.name, days: days.length, zones: result.zones.length, ms: Date.now() - started }, 'change detection ran');
-    return { mapVersion: version.version, days: days.length, excludedRobots: excluded.length, candidates: result.zones.length, ...tracked, flagged };
+    return { mapVersion: version.version, days: days.length, excludedRobots: exclusions.active.length, candidates: result.zones.length, ...tracked, flagged };
+  }
+
+  private async robotIdsWithEvidence(mapVersionId: string): Promise<string[]> {
+    const rows: Array<{ robotId: string }> = await this.db.query('SELECT DISTINCT robot_id AS robotId FROM daily_stats WHERE map_version_id = ?', [mapVersionId]);
+    return rows.map((r) => r.robotId);
   }
 
   private async track(site: Site, version: MapVersion, candidates: ZoneCandidate[], lastDay: string, clearAfterRuns: number) {

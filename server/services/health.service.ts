@@ -6,7 +6,7 @@ import type { Actor } from '../auth/actor.js';
 import { decodeCounts } from './evidence-store.js';
 import type { MapVersionsService } from './map-versions.service.js';
 import type { SitesService } from './sites.service.js';
-import { addDays, completeDays, daysBetween } from './site-days.js';
+import { addDays, completeDays, daysBetween, localDay } from './site-days.js';
 import { siteSettings } from './site-settings.js';
 
 /** Days of the score (DESIGN.md §4.3) and of the forecast's fit. */
@@ -43,8 +43,8 @@ export class HealthService {
     const version = await this.mapVersions.activeFloor(site.id);
     if (!version) return null;
     const window = completeDays(site.timezone, now, days);
-    const excluded = new Set(await this.flaggedRobotIds(site.id));
-    const rows = (await this.db.getRepository(AgreementBlocks).find({ where: { mapVersionId: version.id, day: In(window) } })).filter((r) => !excluded.has(r.robotId));
+    const { excludes } = await this.exclusions(site.id);
+    const rows = (await this.db.getRepository(AgreementBlocks).find({ where: { mapVersionId: version.id, day: In(window) } })).filter((r) => !excludes(r.robotId, r.day));
     const blockCells = rows[0]?.blockCells ?? Math.round(siteSettings(site).agreementBlockM / version.resolution);
     const cols = Math.ceil(version.width / blockCells);
     const rowsCount = Math.ceil(version.height / blockCells);
@@ -65,8 +65,25 @@ export class HealthService {
 
   /** Robots of a site whose scanner check is advised: their returns count in neither the score nor detection. */
   async flaggedRobotIds(siteId: string): Promise<string[]> {
-    const flags = await this.db.getRepository(RobotFlag).createQueryBuilder('f').innerJoin(Robot, 'r', 'r.id = f.robot_id').where('r.site_id = :siteId AND f.status = :s', { siteId, s: 'active' }).getMany();
-    return [...new Set(flags.map((f) => f.robotId))];
+    return (await this.exclusions(siteId)).active;
+  }
+
+  /**
+   * Whose evidence is left out: robots with an active scanner check entirely, and robots whose
+   * check was cleared up to the day it was cleared (site-local), since those scans hold the fault.
+   */
+  async exclusions(siteId: string): Promise<{ active: string[]; clearedUntil: Map<string, string>; excludes: (robotId: string, day: string) => boolean }> {
+    const site = await this.db.getRepository(Site).findOneByOrFail({ id: siteId });
+    const flags = await this.db.getRepository(RobotFlag).createQueryBuilder('f').innerJoin(Robot, 'r', 'r.id = f.robot_id').where('r.site_id = :siteId', { siteId }).getMany();
+    const active = [...new Set(flags.filter((f) => f.status === 'active').map((f) => f.robotId))];
+    const clearedUntil = new Map<string, string>();
+    for (const f of flags) {
+      if (f.status !== 'cleared' || !f.clearedAt) continue;
+      const day = localDay(site.timezone, f.clearedAt);
+      if ((clearedUntil.get(f.robotId) ?? '') < day) clearedUntil.set(f.robotId, day);
+    }
+    const activeSet = new Set(active);
+    return { active, clearedUntil, excludes: (robotId, day) => activeSet.has(robotId) || (clearedUntil.get(robotId) ?? '') >= day };
   }
 
   /** Per site-local day of the last `count` complete days: returns and explained returns on the active map (flagged robots left out). */
@@ -74,22 +91,28 @@ export class HealthService {
     const days = completeDays(site.timezone, now, count);
     const version = await this.mapVersions.activeFloor(site.id);
     if (!version) return days.map((day) => ({ day, returns: 0, explained: 0, score: null as number | null }));
-    const excluded = await this.flaggedRobotIds(site.id);
-    const rows: Array<{ day: string; returns: number; explained: number }> = await this.db
+    const { excludes } = await this.exclusions(site.id);
+    const rows: Array<{ day: string; robotId: string; returns: number; explained: number }> = await this.db
       .getRepository(DailyStat)
       .createQueryBuilder('d')
       .select('d.day', 'day')
+      .addSelect('d.robot_id', 'robotId')
       .addSelect('SUM(d.returns)', 'returns')
       .addSelect('SUM(d.explained)', 'explained')
       .where('d.site_id = :siteId AND d.map_version_id = :v AND d.day >= :from AND d.day <= :to', { siteId: site.id, v: version.id, from: days[0], to: days[days.length - 1] })
-      .andWhere(excluded.length ? 'd.robot_id NOT IN (:...excluded)' : '1=1', { excluded })
       .groupBy('d.day')
+      .addGroupBy('d.robot_id')
       .getRawMany();
-    const byDay = new Map(rows.map((r) => [r.day, r]));
+    const byDay = new Map<string, { returns: number; explained: number }>();
+    for (const r of rows) {
+      if (excludes(r.robotId, r.day)) continue;
+      const v = byDay.get(r.day) ?? { returns: 0, explained: 0 };
+      v.returns += Number(r.returns);
+      v.explained += Number(r.explained);
+      byDay.set(r.day, v);
+    }
     return days.map((day) => {
-      const r = byDay.get(day);
-      const returns = Number(r?.returns ?? 0);
-      const explained = Number(r?.explained ?? 0);
+      const { returns, explained } = byDay.get(day) ?? { returns: 0, explained: 0 };
       return { day, returns, explained, score: healthScore(explained, returns) };
     });
   }

@@ -90,7 +90,7 @@ describe('map health, scanner check and zone tracking on a simulated site', () =
     expect((await t.dataSource.getRepository(Zone).findOneByOrFail({ id: second.id })).status).toBe('dismissed');
   });
 
-  it('when the flag is cleared with a note, then the robot counts again and is not re-flagged on its old days', async () => {
+  it('when the flag is cleared with a note, then the robot counts again from then on, is not re-flagged on its old days, and its old scans stay out', async () => {
     const robots = (await request(t.app).get(`/api/sites/${site.id}/robots`).set('Cookie', nadia)).body.robots as Array<{ id: string; name: string; flags: Array<{ id: string; status: string }> }>;
     const amr = robots.find((r) => r.name === 'AMR-02')!;
     const noNote = await request(t.app).post(`/api/sites/${site.id}/robots/${amr.id}/flags/${amr.flags[0].id}/clear`).set('Cookie', nadia).send({ note: '' });
@@ -99,7 +99,8 @@ describe('map health, scanner check and zone tracking on a simulated site', () =
     expect(cleared.body.flag).toMatchObject({ status: 'cleared', note: 'mount re-aligned' });
     vi.setSystemTime(new Date(NOW.getTime() + 3_600_000));
     const [run] = await t.services.jobRuns.detect('manual', site.id, new Date());
-    expect(run.figures).toMatchObject({ flagged: [], excludedRobots: 0 });
+    // Its scans from before the clearing still hold the fault: they stay out, so no ghost zone appears.
+    expect(run.figures).toMatchObject({ flagged: [], excludedRobots: 0, zonesNew: 0 });
   });
 
   it('when retention runs with a short retention, then evidence older than it is deleted and newer kept', async () => {

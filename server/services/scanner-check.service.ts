@@ -134,7 +134,7 @@ export class ScannerCheckService {
       if (medianZ > -settings.scannerFlagZ || medianDiff > -MIN_DIFFERENCE) continue;
       // The blocks are per robot; the scanner to check is the robot's scanner that explains least.
       const scanner = worstScanner(stats.filter((r) => r.robotId === robotId)) ?? robot.mounts[0]?.name ?? 'front';
-      const mount = await this.estimateMount(site, version, robot, scanner, figures.map((f) => f.day)).catch(() => null);
+      const mount = await this.estimateMount(version, robot, scanner, figures.map((f) => f.day)).catch(() => null);
       const flag = this.db.getRepository(RobotFlag).create({
         id: newId(),
         robotId,
@@ -154,7 +154,7 @@ export class ScannerCheckService {
   }
 
   /** Mount error of one scanner from its sampled scans on `days`, fitted where the rest of the fleet agrees with the map. */
-  async estimateMount(site: Site, version: MapVersion, robot: Robot, scanner: string, days: string[]): Promise<MountFigures | null> {
+  async estimateMount(version: MapVersion, robot: Robot, scanner: string, days: string[]): Promise<MountFigures | null> {
     const mount = robot.mounts.find((m) => m.name === scanner) ?? { name: scanner, x: 0, y: 0, yaw: 0 };
     const grid = await this.mapVersions.grid(version);
     const field = await this.mapVersions.distanceField(version);

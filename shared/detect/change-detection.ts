@@ -28,7 +28,7 @@
  *    newLowerMin; missing: lower bound above missingUpperMax), and undecided otherwise. Summing
  *    the zone's cells before deciding uses hundreds of beams a day where one cell has a handful,
  *    so each day's decision is sound where a per-cell daily vote would be mostly noise.
- *    `daysObserved` counts decided days. Among decided days from the first flagged day on, a share
+ *    `daysObserved` counts decided days from the first flagged day on; among them, a share
  *    flagged ≥ `persistentShare` makes the zone persistent (a moved rack: remap it), else
  *    intermittent (a staging lane: mark it volatile). Counting from the first flagged day keeps a
  *    change that began mid-window persistent. A zone no single day decides is persistent unless
@@ -150,7 +150,7 @@ export interface ZoneCandidate {
   hitRateInterval: [number, number];
   /** Beams n = h + m behind meanHitRate over the window. */
   observations: number;
-  /** Days on which the zone's daily test decided either way. */
+  /** Days from the first flagged day on (every day if none flagged) on which the zone's daily test decided either way. */
   daysObserved: number;
   /** Days on which the zone's daily test flagged the change. */
   daysFlagged: number;
@@ -492,13 +492,12 @@ function finishZone(
   const first = decisions.indexOf('flagged');
   const last = decisions.lastIndexOf('flagged');
   const daysFlagged = decisions.filter((v) => v === 'flagged').length;
-  const daysObserved = decisions.filter((v) => v !== 'undecided').length;
+  // Counted from the first flagged day on, like persistence, so "seen on 10 of 10 days since
+  // 22 Nov" reads true; a zone no single day flagged counts every decided day.
+  const daysObserved = decisions.slice(Math.max(first, 0)).filter((v) => v !== 'undecided').length;
   let persistent: boolean;
   if (first < 0) persistent = !decisions.includes('clear');
-  else {
-    const decidedSince = decisions.slice(first).filter((v) => v !== 'undecided').length;
-    persistent = daysFlagged / decidedSince >= s.persistentShare;
-  }
+  else persistent = daysFlagged / daysObserved >= s.persistentShare;
 
   const res = grid.resolution;
   const outlineM = outlineToMetres(z.outline, grid);

@@ -1,4 +1,4 @@
-import { spawn } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { createWriteStream, openAsBlob } from 'node:fs';
 import { mkdtemp, readFile, rm, stat } from 'node:fs/promises';
 import net from 'node:net';
@@ -11,8 +11,8 @@ import { formatMapMetadata } from '../../shared/grid/map-metadata.js';
 import { encodePgm } from '../../shared/grid/pgm.js';
 import { createScenario } from '../../shared/sim/scenario.js';
 
-// End-to-end ingest through the HTTP API of a real server process (started with tsx on a fresh
-// data directory): robot batches, a large uploaded log (peak RSS of the server), and the
+// End-to-end ingest through the HTTP API of a real server process (compiled first with
+// tsconfig.build.json and started as `npm start` runs it, on a fresh data directory): robot batches, a large uploaded log (peak RSS of the server), and the
 // evidence store's bytes per map cell per day. BENCH_LOG_MB sets the uploaded log's
 // uncompressed size (default 256; the README also quotes a 1024 MB run).
 
@@ -40,7 +40,9 @@ async function peakRssMb(pid: number): Promise<number> {
 export async function run(): Promise<void> {
   const dataDir = await mkdtemp(path.join(os.tmpdir(), 'driftline-bench-'));
   const port = await freePort();
-  const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+  const build = spawnSync('npx', ['tsc', '-p', 'tsconfig.build.json'], { stdio: 'inherit' });
+  if (build.status !== 0) throw new Error('The server did not compile; the ingest bench needs dist/node.');
+  const server = spawn(process.execPath, ['dist/node/server/index.js'], {
     env: { ...process.env, DRIFTLINE_DATA_DIR: dataDir, PORT: String(port), DRIFTLINE_DEMO_EVIDENCE: 'false', LOG_LEVEL: 'error', NODE_ENV: 'production' },
     stdio: ['ignore', 'ignore', 'inherit'],
     detached: true,

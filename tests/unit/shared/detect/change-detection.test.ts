@@ -211,7 +211,8 @@ describe('detectChanges on hand-made grids', () => {
     expect(zone.timeline.filter((t) => t.flagged).map((t) => t.day)).toEqual([...present].map(dateOf));
     expect(zone.firstFlaggedDay).toBe(dateOf(1));
     expect(zone.lastFlaggedDay).toBe(dateOf(8));
-    expect(zone.daysObserved).toBe(10);
+    // Decided days from the first flagged day (index 1) on: 9 of the 10.
+    expect(zone.daysObserved).toBe(9);
   });
 
   it('when a change starts on day 8 of 14 and stays, then its zone is persistent and first flagged on day 8', () => {
@@ -233,8 +234,8 @@ describe('detectChanges on hand-made grids', () => {
     expect(zone.persistence).toBe('persistent');
     expect(zone.firstFlaggedDay).toBe(dateOf(7));
     expect(zone.daysFlagged).toBe(7);
-    // The seven clear days before it began do not count against it.
-    expect(zone.daysObserved).toBe(14);
+    // The seven clear days before it began do not count against it, nor as observed since.
+    expect(zone.daysObserved).toBe(7);
   });
 
   it('when people walk through and leave sparse random hits in free space, then nothing is flagged', () => {

@@ -9,6 +9,50 @@ export interface RgbaImage {
 }
 
 /**
+ * Returns the state a block of cells shows in the map palette, or −1 when no cell of the block lies
+ * inside the grid. The block spans columns i0 … i0 + cols − 1 and rows jTop down to jTop − rows + 1
+ * (cells; row j counts from the bottom). Structure wins over free space and free space over
+ * unknown, so a one-cell wall stays visible however far the grid is scaled down.
+ */
+export function blockState(grid: OccupancyGrid, i0: number, jTop: number, cols: number, rows: number): number {
+  // Clip to the grid first, so the loops below never test bounds per cell.
+  const iStart = Math.max(0, i0);
+  const iEnd = Math.min(grid.width, i0 + cols);
+  const jEnd = Math.min(grid.height - 1, jTop);
+  const jStart = Math.max(0, jTop - rows + 1);
+  if (iStart >= iEnd || jStart > jEnd) return -1;
+  let sawFree = false;
+  for (let j = jEnd; j >= jStart; j--) {
+    const row = j * grid.width;
+    for (let i = iStart; i < iEnd; i++) {
+      const c = grid.cells[row + i];
+      if (c === CellState.Occupied) return CellState.Occupied;
+      if (c === CellState.Free) sawFree = true;
+    }
+  }
+  return sawFree ? CellState.Free : CellState.Unknown;
+}
+
+/**
+ * Writes the opaque palette colour of a cell state (from `blockState`) into the RGBA bytes at
+ * offset `o`; for −1 (outside the grid) it writes a fully transparent pixel.
+ */
+export function writeStatePixel(data: Uint8Array, o: number, state: number): void {
+  if (state < 0) {
+    data[o] = 0;
+    data[o + 1] = 0;
+    data[o + 2] = 0;
+    data[o + 3] = 0;
+    return;
+  }
+  const colour = state === CellState.Occupied ? MAP_COLOURS.structure : state === CellState.Free ? MAP_COLOURS.free : MAP_COLOURS.unknown;
+  data[o] = colour[0];
+  data[o + 1] = colour[1];
+  data[o + 2] = colour[2];
+  data[o + 3] = 255;
+}
+
+/**
  * Renders a grid in the map palette, scaled down so that its longer side is at most `maxSide`
  * pixels (never up). Each pixel covers a block of cells; structure wins over free space and
  * free space over unknown, so a one-cell wall stays visible in a small preview.
@@ -22,29 +66,7 @@ export function renderGridImage(grid: OccupancyGrid, maxSide = 1024): RgbaImage 
     // Pixel row 0 is the map's top edge; grid row j counts from the bottom.
     const jTop = grid.height - 1 - py * step;
     for (let px = 0; px < width; px++) {
-      let sawFree = false;
-      let sawStructure = false;
-      for (let dj = 0; dj < step && !sawStructure; dj++) {
-        const j = jTop - dj;
-        if (j < 0) break;
-        const row = j * grid.width;
-        for (let di = 0; di < step; di++) {
-          const i = px * step + di;
-          if (i >= grid.width) break;
-          const c = grid.cells[row + i];
-          if (c === CellState.Occupied) {
-            sawStructure = true;
-            break;
-          }
-          if (c === CellState.Free) sawFree = true;
-        }
-      }
-      const colour = sawStructure ? MAP_COLOURS.structure : sawFree ? MAP_COLOURS.free : MAP_COLOURS.unknown;
-      const o = (py * width + px) * 4;
-      data[o] = colour[0];
-      data[o + 1] = colour[1];
-      data[o + 2] = colour[2];
-      data[o + 3] = 255;
+      writeStatePixel(data, (py * width + px) * 4, blockState(grid, px * step, jTop, step, step));
     }
   }
   return { width, height, data };

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { MAP_COLOURS } from '../../../../shared/render/palette.js';
-import { renderGridImage } from '../../../../shared/render/grid-image.js';
+import { blockState, renderGridImage } from '../../../../shared/render/grid-image.js';
 import { CellState, type OccupancyGrid } from '../../../../shared/types/grid.js';
 
 function grid(width: number, height: number, fill: number): OccupancyGrid {
@@ -28,5 +28,20 @@ describe('renderGridImage', () => {
     // Cell (1001, 500) lies in block column 250, block row (999 − 500) / 4 → 124.
     expect(pixel(img, 250, 124)).toEqual([...MAP_COLOURS.structure]);
     expect(pixel(img, 10, 10)).toEqual([...MAP_COLOURS.free]);
+  });
+});
+
+describe('blockState', () => {
+  it('when a block holds structure, free and unknown cells, then structure wins; when it lies outside, then −1', () => {
+    const g = grid(4, 4, CellState.Unknown);
+    g.cells[3 * 4 + 0] = CellState.Free;
+    g.cells[2 * 4 + 1] = CellState.Occupied;
+    expect(blockState(g, 0, 3, 2, 2)).toBe(CellState.Occupied);
+    expect(blockState(g, 0, 3, 1, 1)).toBe(CellState.Free);
+    expect(blockState(g, 2, 1, 2, 2)).toBe(CellState.Unknown);
+    // Partly outside: only the in-grid cell (0, 3) counts.
+    expect(blockState(g, -1, 4, 2, 2)).toBe(CellState.Free);
+    expect(blockState(g, 4, 3, 2, 2)).toBe(-1);
+    expect(blockState(g, 0, -1, 2, 2)).toBe(-1);
   });
 });

@@ -29,8 +29,10 @@ const uploadFields = z.strictObject({
 });
 const siteParams = z.object({ siteId: id });
 const versionParams = z.object({ siteId: id, versionId: id });
+const tileIndex = z.string().regex(/^\d{1,6}$/, 'must be a whole number from 0').transform(Number);
+const tileParams = versionParams.extend({ z: tileIndex, x: tileIndex, y: tileIndex });
 
-/** /api/sites/:siteId/map-versions: upload (mappers), list, preview, activate. */
+/** /api/sites/:siteId/map-versions: upload (mappers), list, preview, grid tiles, activate. */
 export function mapVersionsRoutes(services: Services) {
   const router = Router({ mergeParams: true });
   router.use(authenticate);
@@ -74,6 +76,19 @@ export function mapVersionsRoutes(services: Services) {
     // A version's grid never changes, so its preview may be cached privately for long.
     res.setHeader('Cache-Control', 'private, max-age=86400, immutable');
     res.type('png').send(png);
+  });
+
+  router.get('/:versionId/tiles/:z/:x/:y.png', validate({ params: tileParams }), async (req, res) => {
+    const { siteId, versionId, z: zoom, x, y } = res.locals.params;
+    const tile = await services.mapVersions.tile(actorOf(res), siteId, versionId, zoom, x, y);
+    // A version's tile never changes: one ETag per version and tile, cached for a year.
+    res.setHeader('ETag', tile.etag);
+    res.setHeader('Cache-Control', 'private, max-age=31536000, immutable');
+    if (req.fresh) {
+      res.status(304).end();
+      return;
+    }
+    res.type('png').send(await tile.render());
   });
 
   router.post('/:versionId/activate', requireRole('admin', 'mapper'), validate({ params: versionParams, body: z.strictObject({}).optional() }), async (_req, res) => {

@@ -3,12 +3,14 @@
 import { run as traverse } from './traverse.bench.js';
 import { run as simulate } from './simulate.bench.js';
 import { run as ingest } from './ingest.bench.js';
+import { run as tiles } from './tiles.bench.js';
 import { run as changeDetection } from './change-detection.bench.js';
 import { run as detect } from './detect.bench.js';
 
 const benches: [string, () => Promise<void>][] = [['traverse', traverse]];
 benches.push(['simulate', simulate]);
 benches.push(['ingest', ingest]);
+benches.push(['tiles', tiles]);
 benches.push(['change detection', changeDetection]);
 benches.push(['detect', detect]);
 

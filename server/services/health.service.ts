@@ -9,6 +9,16 @@ import type { SitesService } from './sites.service.js';
 import { addDays, completeDays, daysBetween, localDay } from './site-days.js';
 import { siteSettings } from './site-settings.js';
 
+/** Whose evidence a site's figures leave out (see HealthService.exclusions). */
+export interface Exclusions {
+  /** Robots with an active scanner check. */
+  active: string[];
+  /** Robots whose check was cleared, with the site-local day it was cleared. */
+  clearedUntil: Map<string, string>;
+  /** True when that robot's evidence of that day is left out. */
+  excludes: (robotId: string, day: string) => boolean;
+}
+
 /** Days of the score (DESIGN.md §4.3) and of the forecast's fit. */
 const SCORE_DAYS = 7;
 const SERIES_DAYS = 30;
@@ -24,14 +34,14 @@ export class HealthService {
 
   /** The sites the actor may see, each with its health figures (fleet overview). */
   async fleet(actor: Actor, now = new Date()) {
-    const sites = await this.sites.list(actor);
-    return Promise.all(sites.map(async (s) => ({ ...s, health: await this.siteHealth(await this.sites.getVisible(actor, s.id), now) })));
+    const sites = await this.sites.listVisible(actor);
+    return Promise.all(sites.map(async (s) => ({ ...(await this.sites.view(s)), health: await this.siteHealth(s, now) })));
   }
 
   /** One visible site with its health figures (site header). */
   async site(actor: Actor, siteId: string, now = new Date()) {
     const site = await this.sites.getVisible(actor, siteId);
-    return { ...(await this.sites.get(actor, siteId)), health: await this.siteHealth(site, now) };
+    return { ...(await this.sites.view(site)), health: await this.siteHealth(site, now) };
   }
 
   /**
@@ -43,7 +53,7 @@ export class HealthService {
     const version = await this.mapVersions.activeFloor(site.id);
     if (!version) return null;
     const window = completeDays(site.timezone, now, days);
-    const { excludes } = await this.exclusions(site.id);
+    const { excludes } = await this.exclusions(site);
     const rows = (await this.db.getRepository(AgreementBlocks).find({ where: { mapVersionId: version.id, day: In(window) } })).filter((r) => !excludes(r.robotId, r.day));
     const blockCells = rows[0]?.blockCells ?? Math.round(siteSettings(site).agreementBlockM / version.resolution);
     const cols = Math.ceil(version.width / blockCells);
@@ -63,17 +73,13 @@ export class HealthService {
     return { mapVersionId: version.id, days: window, blockCells, blockM: blockCells * version.resolution, cols, rows: rowsCount, returns, agreement: returns.map((r, k) => (r > 0 ? explained[k] / r : null)) };
   }
 
-  /** Robots of a site whose scanner check is advised: their returns count in neither the score nor detection. */
-  async flaggedRobotIds(siteId: string): Promise<string[]> {
-    return (await this.exclusions(siteId)).active;
-  }
 
   /**
    * Whose evidence is left out: robots with an active scanner check entirely, and robots whose
    * check was cleared up to the day it was cleared (site-local), since those scans hold the fault.
    */
-  async exclusions(siteId: string): Promise<{ active: string[]; clearedUntil: Map<string, string>; excludes: (robotId: string, day: string) => boolean }> {
-    const site = await this.db.getRepository(Site).findOneByOrFail({ id: siteId });
+  async exclusions(site: Site): Promise<Exclusions> {
+    const siteId = site.id;
     const flags = await this.db.getRepository(RobotFlag).createQueryBuilder('f').innerJoin(Robot, 'r', 'r.id = f.robot_id').where('r.site_id = :siteId', { siteId }).getMany();
     const active = [...new Set(flags.filter((f) => f.status === 'active').map((f) => f.robotId))];
     const clearedUntil = new Map<string, string>();
@@ -87,11 +93,11 @@ export class HealthService {
   }
 
   /** Per site-local day of the last `count` complete days: returns and explained returns on the active map (flagged robots left out). */
-  async dailySeries(site: Site, now: Date, count = SERIES_DAYS) {
+  async dailySeries(site: Site, now: Date, count = SERIES_DAYS, exclusions?: Exclusions) {
     const days = completeDays(site.timezone, now, count);
     const version = await this.mapVersions.activeFloor(site.id);
     if (!version) return days.map((day) => ({ day, returns: 0, explained: 0, score: null as number | null }));
-    const { excludes } = await this.exclusions(site.id);
+    const { excludes } = exclusions ?? (await this.exclusions(site));
     const rows: Array<{ day: string; robotId: string; returns: number; explained: number }> = await this.db
       .getRepository(DailyStat)
       .createQueryBuilder('d')
@@ -120,7 +126,8 @@ export class HealthService {
   /** Everything the site header and the fleet overview show about a site's map health. */
   async siteHealth(site: Site, now = new Date()) {
     const settings = siteSettings(site);
-    const series = await this.dailySeries(site, now);
+    const exclusions = await this.exclusions(site);
+    const series = await this.dailySeries(site, now, SERIES_DAYS, exclusions);
     const sum = (rows: typeof series) => rows.reduce((a, r) => ({ returns: a.returns + r.returns, explained: a.explained + r.explained }), { returns: 0, explained: 0 });
     const last7 = sum(series.slice(-SCORE_DAYS));
     const prev7 = sum(series.slice(-2 * SCORE_DAYS, -SCORE_DAYS));
@@ -150,7 +157,7 @@ export class HealthService {
       },
       openZones,
       changedAreaM2: zones.reduce((a, z) => a + z.areaM2, 0),
-      flaggedRobots: (await this.flaggedRobotIds(site.id)).length,
+      flaggedRobots: exclusions.active.length,
     };
   }
 }

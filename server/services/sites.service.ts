@@ -17,7 +17,8 @@ export class SitesService {
     return isOperator(actor) ? {} : { organizationId: actor.organizationId };
   }
 
-  private async view(site: Site) {
+  /** A site (loaded with its organization) as the client sees it. */
+  async view(site: Site) {
     return {
       id: site.id,
       name: site.name,
@@ -28,11 +29,15 @@ export class SitesService {
     };
   }
 
-  /** The sites the actor may see, by organization then name. */
-  async list(actor: Actor) {
+  /** The site entities the actor may see, by organization then name. */
+  async listVisible(actor: Actor): Promise<Site[]> {
     const sites = await this.db.getRepository(Site).find({ where: this.scope(actor), relations: { organization: true }, order: { name: 'ASC' } });
-    sites.sort((a, b) => a.organization.name.localeCompare(b.organization.name) || a.name.localeCompare(b.name));
-    return Promise.all(sites.map((s) => this.view(s)));
+    return sites.sort((a, b) => a.organization.name.localeCompare(b.organization.name) || a.name.localeCompare(b.name));
+  }
+
+  /** The sites the actor may see as the client sees them, by organization then name. */
+  async list(actor: Actor) {
+    return Promise.all((await this.listVisible(actor)).map((s) => this.view(s)));
   }
 
   /** The site if the actor may see it; 404 otherwise, so that other organizations' ids do not leak. */

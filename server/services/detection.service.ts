@@ -1,6 +1,7 @@
 import { deflateRawSync, inflateRawSync } from 'node:zlib';
 import type { Logger } from 'pino';
 import { In, type DataSource } from 'typeorm';
+import type { DetectionFigures } from '../../shared/types/jobs.js';
 import { detectChanges, type DayCounters, type ZoneCandidate } from '../../shared/detect/change-detection.js';
 import { createCounters } from '../../shared/scan/accumulate.js';
 import type { Actor } from '../auth/actor.js';
@@ -23,18 +24,6 @@ function decodeCells(blob: Buffer): Int32Array {
   return new Int32Array(raw.buffer.slice(raw.byteOffset, raw.byteOffset + raw.byteLength));
 }
 
-/** Figures of one site's detection run, as the job run records them. */
-export interface DetectionFigures {
-  mapVersion: number | null;
-  days: number;
-  excludedRobots: number;
-  candidates: number;
-  zonesNew: number;
-  zonesUpdated: number;
-  zonesCleared: number;
-  flagged: string[];
-  skipped?: string;
-}
 
 /** Zone filters of the zones table. */
 export interface ZoneQuery {
@@ -76,6 +65,7 @@ function zoneView(z: Zone) {
   };
 }
 export type ZoneView = ReturnType<typeof zoneView>;
+export type { DetectionFigures };
 
 /**
  * Nightly change detection of a site (DESIGN.md §4.4): pools the window's evidence on the active
@@ -107,7 +97,7 @@ export class DetectionService {
     const window = completeDays(site.timezone, now, settings.detectionWindowDays);
     const days = this.store.daysWithEvidence(version.id, window[0], window[window.length - 1]);
     if (days.length === 0) return { ...empty, mapVersion: version.version, flagged, skipped: 'No evidence in the detection window.' };
-    const exclusions = await this.health.exclusions(site.id);
+    const exclusions = await this.health.exclusions(site);
     const robotIds = await this.robotIdsWithEvidence(version.id);
     const grid = await this.mapVersions.grid(version);
     const field = await this.mapVersions.distanceField(version);

@@ -1,28 +1,12 @@
+import type { DetectionFigures as DetectionRunFigures, RetentionFigures as RetentionRunFigures } from '../../shared/types/jobs';
 import { apiRequest } from './client';
 
 export type JobName = 'detection' | 'retention';
 export type JobTrigger = 'schedule' | 'manual' | 'startup';
 export type JobRunStatus = 'running' | 'succeeded' | 'failed';
 
-/** What a detection run reports: active map version number, days pooled, robots left out, zones found, scanners flagged. */
-export interface DetectionRunFigures {
-  mapVersion: number | null;
-  days: number;
-  excludedRobots: number;
-  candidates: number;
-  zonesNew: number;
-  zonesUpdated: number;
-  zonesCleared: number;
-  flagged: string[];
-  skipped?: string;
-}
-
-/** What a retention run reports: stored items dropped because they were older than the sites' retention. */
-export interface RetentionRunFigures {
-  chunksDeleted: number;
-  blocksDeleted: number;
-  samplesDeleted: number;
-}
+/** What a detection or retention run reports: the server's own types. */
+export type { DetectionRunFigures, RetentionRunFigures };
 
 /** One run of a scheduled job; durations in milliseconds, figures as the job reported them. */
 export interface JobRun {

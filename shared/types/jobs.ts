@@ -1,0 +1,19 @@
+/** What a site's detection run reports: active map version number, days pooled, robots left out, zones found and tracked, scanners flagged. */
+export interface DetectionFigures {
+  mapVersion: number | null;
+  days: number;
+  excludedRobots: number;
+  candidates: number;
+  zonesNew: number;
+  zonesUpdated: number;
+  zonesCleared: number;
+  flagged: string[];
+  skipped?: string;
+}
+
+/** What a retention run reports: stored items dropped because they were older than the sites' retention. */
+export interface RetentionFigures {
+  chunksDeleted: number;
+  blocksDeleted: number;
+  samplesDeleted: number;
+}

@@ -53,8 +53,8 @@ function isErrorBody(value: unknown): value is { error: { code?: unknown; messag
   return typeof value === 'object' && value !== null && 'error' in value && typeof (value as { error: unknown }).error === 'object';
 }
 
-async function readJson(response: Response): Promise<unknown> {
-  const text = await response.text();
+/** Parses an answer's text as JSON; undefined when it is empty or not JSON. */
+export function parseJsonText(text: string): unknown {
   if (text.length === 0) return undefined;
   try {
     return JSON.parse(text) as unknown;
@@ -62,6 +62,10 @@ async function readJson(response: Response): Promise<unknown> {
     // A proxy or crashed server may answer with HTML; the caller gets a readable ApiError instead of a parse error.
     return undefined;
   }
+}
+
+async function readJson(response: Response): Promise<unknown> {
+  return parseJsonText(await response.text());
 }
 
 function fallbackMessage(status: number): string {
@@ -92,13 +96,22 @@ export async function apiRequest<T>(path: string, options: RequestOptions = {}):
   const body = await readJson(response);
   if (response.ok) return body as T;
 
-  const error = isErrorBody(body) ? body.error : undefined;
-  const code = typeof error?.code === 'string' ? error.code : `http_${response.status}`;
-  const message = typeof error?.message === 'string' && error.message.length > 0 ? error.message : fallbackMessage(response.status);
-  const details = typeof error?.details === 'object' && error.details !== null ? (error.details as Record<string, unknown>) : undefined;
-
   if (response.status === 401 && !options.expectUnauthorized) onUnauthorized?.();
-  throw new ApiError(response.status, code, message, details);
+  throw errorFromAnswer(response.status, body);
+}
+
+/** The ApiError for a failed answer: the server's code and sentence, or one that the status explains. */
+export function errorFromAnswer(status: number, body: unknown, fallback: (status: number) => string = fallbackMessage): ApiError {
+  const error = isErrorBody(body) ? body.error : undefined;
+  const code = typeof error?.code === 'string' ? error.code : `http_${status}`;
+  const message = typeof error?.message === 'string' && error.message.length > 0 ? error.message : fallback(status);
+  const details = typeof error?.details === 'object' && error.details !== null ? (error.details as Record<string, unknown>) : undefined;
+  return new ApiError(status, code, message, details);
+}
+
+/** Runs the registered "session ended" handling (for requests sent outside apiRequest, like uploads). */
+export function notifyUnauthorized(): void {
+  onUnauthorized?.();
 }
 
 /** Turns anything thrown into a sentence a person can read. */

@@ -1,5 +1,5 @@
 import { appConfig } from '@/config';
-import { ApiError, apiRequest } from './client';
+import { ApiError, errorFromAnswer, notifyUnauthorized, parseJsonText } from './client';
 
 /** How far an upload has gone: bytes sent so far and the request's total bytes (null while the browser cannot tell). */
 export interface UploadProgress {
@@ -13,24 +13,11 @@ export interface UploadOptions {
   signal?: AbortSignal;
 }
 
-function parseBody(text: string): unknown {
-  if (text.length === 0) return undefined;
-  try {
-    return JSON.parse(text) as unknown;
-  } catch {
-    return undefined;
-  }
-}
-
-function uploadError(status: number, body: unknown): ApiError {
-  const error = (body as { error?: { code?: unknown; message?: unknown; details?: unknown } } | undefined)?.error;
-  const code = typeof error?.code === 'string' ? error.code : `http_${status}`;
-  const details = typeof error?.details === 'object' && error.details !== null ? (error.details as Record<string, unknown>) : undefined;
-  if (typeof error?.message === 'string' && error.message.length > 0) return new ApiError(status, code, error.message, details);
+function uploadFallback(status: number): string {
   // Without a JSON answer (a proxy's size limit, a crashed server) the status alone has to explain.
-  if (status === 413) return new ApiError(status, code, 'The file is larger than the server accepts.');
-  if (status >= 500) return new ApiError(status, code, 'The Driftline server had a problem with this upload. Please try again in a moment.');
-  return new ApiError(status, code, `The upload failed (HTTP ${status}).`);
+  if (status === 413) return 'The file is larger than the server accepts.';
+  if (status >= 500) return 'The Driftline server had a problem with this upload. Please try again in a moment.';
+  return `The upload failed (HTTP ${status}).`;
 }
 
 /**
@@ -44,16 +31,14 @@ export function postForm<T>(path: string, form: FormData, options: UploadOptions
     xhr.setRequestHeader('Accept', 'application/json');
     xhr.upload.onprogress = (event) => options.onProgress?.({ loaded: event.loaded, total: event.lengthComputable ? event.total : null });
     xhr.onload = () => {
-      const body = parseBody(xhr.responseText);
+      const body = parseJsonText(xhr.responseText);
       if (xhr.status >= 200 && xhr.status < 300) {
         resolve(body as T);
         return;
       }
-      if (xhr.status === 401) {
-        // The session ended during the upload; one ordinary call lets the API client's own 401 handling sign out.
-        void apiRequest('/auth/me').catch(() => undefined);
-      }
-      reject(uploadError(xhr.status, body));
+      // The session ended during the upload: sign out as every other call does.
+      if (xhr.status === 401) notifyUnauthorized();
+      reject(errorFromAnswer(xhr.status, body, uploadFallback));
     };
     xhr.onerror = () => reject(new ApiError(0, 'network_error', 'The upload was interrupted: the Driftline server could not be reached. Check your connection and try again.'));
     xhr.onabort = () => reject(new DOMException('The upload was cancelled.', 'AbortError'));

@@ -41,6 +41,13 @@ export const routes: RouteRecordRaw[] = [
         meta: { title: 'Site' },
       },
       {
+        path: 'map',
+        name: 'site-map',
+        component: () => import('@/views/SiteMapView.vue'),
+        props: true,
+        meta: { title: 'Map' },
+      },
+      {
         path: 'zones',
         name: 'site-zones',
         component: () => import('@/views/SiteZonesView.vue'),
@@ -67,6 +74,13 @@ export const routes: RouteRecordRaw[] = [
         component: () => import('@/views/SiteScanLogsView.vue'),
         props: true,
         meta: { title: 'Scan logs' },
+      },
+      {
+        path: 'settings',
+        name: 'site-settings',
+        component: () => import('@/views/SiteSettingsView.vue'),
+        props: true,
+        meta: { title: 'Settings' },
       },
     ],
   },

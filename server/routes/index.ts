@@ -10,8 +10,10 @@ import { invitationsRoutes } from './invitations.routes.js';
 import { jobRunsRoutes } from './job-runs.routes.js';
 import { mapVersionsRoutes } from './map-versions.routes.js';
 import { organizationsRoutes } from './organizations.routes.js';
+import { pathsRoutes } from './paths.routes.js';
 import { robotsRoutes } from './robots.routes.js';
 import { scanBatchesRoutes } from './scan-batches.routes.js';
+import { siteSettingsRoutes } from './site-settings.routes.js';
 import { sitesRoutes } from './sites.routes.js';
 import { usersRoutes } from './users.routes.js';
 import { zonesRoutes } from './zones.routes.js';
@@ -31,6 +33,8 @@ export function routeTable(services: Services, config: Config, db: DataSource, v
     { path: '/users', router: usersRoutes(services) },
     { path: '/organizations', router: organizationsRoutes(services) },
     { path: '/sites', router: sitesRoutes(services) },
+    { path: '/sites/:siteId/settings', router: siteSettingsRoutes(services) },
+    { path: '/sites/:siteId/paths', router: pathsRoutes(services) },
     { path: '/sites/:siteId/robots', router: robotsRoutes(services) },
     { path: '/sites/:siteId/map-versions', router: mapVersionsRoutes(services) },
     { path: '/sites/:siteId/scan-batches', router: scanBatchesRoutes(services, config) },

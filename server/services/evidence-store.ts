@@ -5,7 +5,9 @@ import { decodeChunkCounters, DEFAULT_CHUNK_SIZE, encodeChunkCounters, mergeChun
 import type { EvidenceCounters } from '../../shared/scan/accumulate.js';
 import { exclusive } from '../transaction-lock.js';
 import type { PendingChunk } from './chunk-spill.js';
-import type { PendingBlocks, PendingSample, PendingStat } from './scan-accumulator.js';
+import { encodeTrail } from '../../shared/scan/trail.js';
+import { newId } from './ids.js';
+import type { PendingBlocks, PendingSample, PendingStat, PendingTrail } from './scan-accumulator.js';
 
 const CHUNK_CELLS = DEFAULT_CHUNK_SIZE * DEFAULT_CHUNK_SIZE;
 const UINT32_MAX = 0xffff_ffff;
@@ -23,6 +25,7 @@ export interface BatchEvidence {
   blocks: PendingBlocks[];
   blockCells: number;
   samples: PendingSample[];
+  trails: PendingTrail[];
 }
 
 /** Most raw scans kept per robot, scanner and day for mount estimation (product choice). */
@@ -79,6 +82,7 @@ export class EvidenceStore {
       'INSERT INTO scan_samples (map_version_id, robot_id, scanner, day, count, data) VALUES (?, ?, ?, ?, ?, ?) ' +
         'ON CONFLICT (map_version_id, robot_id, scanner, day) DO UPDATE SET count = excluded.count, data = excluded.data',
     );
+    const addTrail = raw.prepare('INSERT INTO pose_trails (id, map_version_id, robot_id, day, first_ms, last_ms, count, data) VALUES (?, ?, ?, ?, ?, ?, ?, ?)');
     const now = sqliteDatetime(new Date());
     const run = raw.transaction(() => {
       if (!guard(raw)) return false;
@@ -110,6 +114,13 @@ export class EvidenceStore {
         const take = smp.lines.slice(0, SAMPLE_MAX - have);
         const text = (stored ? inflateRawSync(stored.data).toString('utf8') + '\n' : '') + take.join('\n');
         upsertSample.run(mapVersionId, smp.robotId, smp.scanner, smp.day, have + take.length, deflateRawSync(Buffer.from(text), { level: 6 }));
+      }
+      for (const trail of evidence.trails) {
+        const { t } = trail.points;
+        if (t.length === 0) continue;
+        const first = t.reduce((a, b) => Math.min(a, b));
+        const last = t.reduce((a, b) => Math.max(a, b));
+        addTrail.run(newId(), mapVersionId, trail.robotId, trail.day, first, last, t.length, deflateRawSync(encodeTrail(trail.points), { level: 6 }));
       }
       return true;
     });

@@ -11,8 +11,10 @@ import { InvitationsService } from './invitations.service.js';
 import { JobRunsService } from './job-runs.service.js';
 import { MapVersionsService } from './map-versions.service.js';
 import { OrganizationsService } from './organizations.service.js';
+import { PathsService } from './paths.service.js';
 import { RobotsService } from './robots.service.js';
 import { ScannerCheckService } from './scanner-check.service.js';
+import { SiteSettingsService } from './site-settings.service.js';
 import { SitesService } from './sites.service.js';
 import { UsersService } from './users.service.js';
 
@@ -32,9 +34,11 @@ export function createServices(db: DataSource, config: Config, sessions: Session
     jobRuns: new JobRunsService(db, detection, log),
     demoSeed: new DemoSeedProgress(),
     mapVersions,
+    paths: new PathsService(db, sites, mapVersions),
     ingest: new IngestService(db, sites, mapVersions, log),
     audit,
     sites,
+    siteSettings: new SiteSettingsService(db, sites, audit),
     users: new UsersService(db, sessions, audit),
     invitations: new InvitationsService(db, audit, config.baseUrl, log),
     organizations: new OrganizationsService(db, audit),

@@ -1,6 +1,6 @@
 import type { Logger } from 'pino';
 import { LessThan, type DataSource } from 'typeorm';
-import { AgreementBlocks, EvidenceChunk, JobRun, MapVersion, ScanSample, Site } from '../entities/index.js';
+import { AgreementBlocks, EvidenceChunk, JobRun, MapVersion, PoseTrail, ScanSample, Site } from '../entities/index.js';
 import type { JobName } from '../entities/job-run.entity.js';
 import { notFound } from '../http-error.js';
 import type { DetectionService } from './detection.service.js';
@@ -72,12 +72,13 @@ export class JobRunsService {
     return runs;
   }
 
-  /** Evidence retention: drops evidence, agreement blocks and scan samples older than each site's retention days. */
+  /** Evidence retention: drops evidence, agreement blocks, scan samples and robot trails older than each site's retention days. */
   async retention(trigger: Trigger, now = new Date()) {
     return this.record('retention', null, trigger, async () => {
       let chunks = 0;
       let blocks = 0;
       let samples = 0;
+      let trails = 0;
       for (const site of await this.db.getRepository(Site).find()) {
         const [cutoff] = completeDays(site.timezone, now, siteSettings(site).retentionDays);
         const versions = (await this.db.getRepository(MapVersion).find({ where: { siteId: site.id }, select: { id: true } })).map((v) => v.id);
@@ -85,9 +86,10 @@ export class JobRunsService {
           chunks += (await this.db.getRepository(EvidenceChunk).delete({ mapVersionId, day: LessThan(cutoff) })).affected ?? 0;
           blocks += (await this.db.getRepository(AgreementBlocks).delete({ mapVersionId, day: LessThan(cutoff) })).affected ?? 0;
           samples += (await this.db.getRepository(ScanSample).delete({ mapVersionId, day: LessThan(cutoff) })).affected ?? 0;
+          trails += (await this.db.getRepository(PoseTrail).delete({ mapVersionId, day: LessThan(cutoff) })).affected ?? 0;
         }
       }
-      return { chunksDeleted: chunks, blocksDeleted: blocks, samplesDeleted: samples };
+      return { chunksDeleted: chunks, blocksDeleted: blocks, samplesDeleted: samples, trailsDeleted: trails };
     });
   }
 

@@ -4,6 +4,7 @@ import { encodeChunkCounters, splitIntoChunks } from '../../shared/evidence/chun
 import { frameU, frameV, makeGridFrame } from '../../shared/grid/transform.js';
 import { accumulateScan, createCounters, type EvidenceCounters } from '../../shared/scan/accumulate.js';
 import { parseScanLine } from '../../shared/scan/scan-record.js';
+import { TrailThinner, type TrailPoints } from '../../shared/scan/trail.js';
 import type { OccupancyGrid } from '../../shared/types/grid.js';
 import type { Robot } from '../entities/index.js';
 import type { RejectedLine } from '../entities/scan-batch.entity.js';
@@ -42,6 +43,13 @@ export interface PendingSample {
   scanner: string;
   day: string;
   lines: string[];
+}
+
+/** Per robot and day: the thinned base poses of its scans (the map's paths layer). */
+export interface PendingTrail {
+  robotId: string;
+  day: string;
+  points: TrailPoints;
 }
 
 /** Batch totals as the receipt shows them. */
@@ -96,6 +104,7 @@ export class ScanAccumulator {
   private readonly blocks = new Map<string, PendingBlocks>();
   private readonly daySet = new Set<string>();
   private readonly samples = new Map<string, PendingSample & { seen: number }>();
+  private readonly trails = new Map<string, { robotId: string; day: string; thinner: TrailThinner }>();
   // Deterministic reservoir sampling: the same batch keeps the same scans.
   private sampleState = 0x9e3779b9;
   private readonly frame;
@@ -153,6 +162,7 @@ export class ScanAccumulator {
       onReturn: this.onReturn,
     });
     this.sample(robot.id, scan.scanner, day, text);
+    this.trailFor(robot.id, day).add(scan.timeMs, scan.pose[0], scan.pose[1]);
     this.figures.scans++;
     this.figures.beams += f.beams;
     this.figures.returns += f.returns;
@@ -164,12 +174,21 @@ export class ScanAccumulator {
     stat.outOfMap += f.outOfMap;
   }
 
-  /** Packs what is still in memory; returns the per-robot-day figures and agreement blocks. Chunks are in `spill`. */
-  finish(): { stats: PendingStat[]; blocks: PendingBlocks[]; samples: PendingSample[] } {
+  /** Packs what is still in memory; returns the per-robot-day figures, agreement blocks, samples and trails. Chunks are in `spill`. */
+  finish(): { stats: PendingStat[]; blocks: PendingBlocks[]; samples: PendingSample[]; trails: PendingTrail[] } {
     for (const key of [...this.resident.keys()]) this.pack(key);
     this.figures.days = [...this.daySet].sort();
     const samples = [...this.samples.values()].map(({ robotId, scanner, day, lines }) => ({ robotId, scanner, day, lines }));
-    return { stats: [...this.stats.values()], blocks: [...this.blocks.values()], samples };
+    const trails = [...this.trails.values()].map(({ robotId, day, thinner }) => ({ robotId, day, points: thinner.points }));
+    return { stats: [...this.stats.values()], blocks: [...this.blocks.values()], samples, trails };
+  }
+
+  // Per robot, not per scanner: every scanner of a robot reports the same base pose.
+  private trailFor(robotId: string, day: string): TrailThinner {
+    const key = `${robotId}|${day}`;
+    let trail = this.trails.get(key);
+    if (!trail) this.trails.set(key, (trail = { robotId, day, thinner: new TrailThinner() }));
+    return trail.thinner;
   }
 
   private sample(robotId: string, scanner: string, day: string, line: string) {

@@ -16,4 +16,6 @@ export interface RetentionFigures {
   chunksDeleted: number;
   blocksDeleted: number;
   samplesDeleted: number;
+  /** Absent in runs recorded before robot trails were kept. */
+  trailsDeleted?: number;
 }

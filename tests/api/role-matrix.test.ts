@@ -85,6 +85,9 @@ const CASES: Case[] = [
   { route: 'POST /api/sites/:siteId/scan-batches', expect: { ...operatorOnly(202) }, attach: (req) => req.attach('log', Buffer.from(scanLine({}) + '\n'), 'drive.jsonl'), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/scan-batches` }) },
   { route: 'GET /api/sites/:siteId/scan-batches/:batchId', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/scan-batches/${fixture.batchId}` }) },
   { route: 'GET /api/sites/:siteId/agreement', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/agreement` }) },
+  { route: 'GET /api/sites/:siteId/paths', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/paths` }) },
+  { route: 'GET /api/sites/:siteId/settings', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/settings` }) },
+  { route: 'PATCH /api/sites/:siteId/settings', expect: adminOnly(200), body: () => ({ detectionHour: 3 }), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/settings` }) },
   { route: 'GET /api/sites/:siteId/zones', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/zones` }) },
   { route: 'GET /api/sites/:siteId/zones/:zoneId', expect: signedIn(200), prepare: (c) => ({ path: zonePath(c, fixture.zoneId) }) },
   {

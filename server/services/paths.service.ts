@@ -1,0 +1,64 @@
+import { inflateRawSync } from 'node:zlib';
+import { LessThanOrEqual, MoreThanOrEqual, type DataSource } from 'typeorm';
+import { decodeTrail, splitTracks, type TrailPoints } from '../../shared/scan/trail.js';
+import type { Actor } from '../auth/actor.js';
+import { PoseTrail, Robot } from '../entities/index.js';
+import type { MapVersionsService } from './map-versions.service.js';
+import type { SitesService } from './sites.service.js';
+
+/** Most poses drawn per robot; longer trails are thinned further (a product choice that keeps the layer light). */
+export const MAX_POSES_PER_ROBOT = 4000;
+
+/** Keeps every k-th pose of each track (and its last) so that all tracks together hold at most `max` poses. */
+function capPoses(tracks: Array<Array<[number, number]>>, max: number) {
+  const total = tracks.reduce((n, t) => n + t.length, 0);
+  if (total <= max) return tracks;
+  const step = Math.ceil(total / max);
+  return tracks.map((t) => t.filter((_, k) => k % step === 0 || k === t.length - 1)).filter((t) => t.length > 1);
+}
+
+/** Robots' recent paths on a site's active map, from the thinned poses ingest keeps. */
+export class PathsService {
+  constructor(
+    private readonly db: DataSource,
+    private readonly sites: SitesService,
+    private readonly mapVersions: MapVersionsService,
+  ) {}
+
+  /**
+   * The paths of the `hours` up to the newest pose recorded on the active map (not up to now: a site
+   * whose robots last sent scans yesterday still shows that shift), per robot as tracks in map metres.
+   * Null when the site has no active floor map.
+   */
+  async recent(actor: Actor, siteId: string, hours: number, now = new Date()) {
+    const site = await this.sites.getVisible(actor, siteId);
+    const version = await this.mapVersions.activeFloor(site.id);
+    if (!version) return null;
+    const repo = this.db.getRepository(PoseTrail);
+    const newest = await repo.findOne({ where: { mapVersionId: version.id, lastMs: LessThanOrEqual(now.getTime()) }, order: { lastMs: 'DESC' }, select: { id: true, lastMs: true } });
+    const to = newest?.lastMs ?? now.getTime();
+    const from = to - hours * 3_600_000;
+    const rows = newest ? await repo.find({ where: { mapVersionId: version.id, lastMs: MoreThanOrEqual(from), firstMs: LessThanOrEqual(to) } }) : [];
+    const byRobot = new Map<string, TrailPoints>();
+    for (const row of rows) {
+      const p = decodeTrail(inflateRawSync(row.data));
+      let into = byRobot.get(row.robotId);
+      if (!into) byRobot.set(row.robotId, (into = { t: [], x: [], y: [] }));
+      for (let k = 0; k < p.t.length; k++) {
+        if (p.t[k] < from || p.t[k] > to) continue;
+        into.t.push(p.t[k]);
+        into.x.push(p.x[k]);
+        into.y.push(p.y[k]);
+      }
+    }
+    const robots = await this.db.getRepository(Robot).find({ where: { siteId: site.id }, order: { name: 'ASC' } });
+    return {
+      mapVersionId: version.id,
+      from: new Date(from).toISOString(),
+      to: new Date(to).toISOString(),
+      robots: robots
+        .map((r) => ({ robotId: r.id, name: r.name, tracks: capPoses(splitTracks(byRobot.get(r.id) ?? { t: [], x: [], y: [] }), MAX_POSES_PER_ROBOT) }))
+        .filter((r) => r.tracks.length > 0),
+    };
+  }
+}

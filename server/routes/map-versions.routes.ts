@@ -31,6 +31,8 @@ const siteParams = z.object({ siteId: id });
 const versionParams = z.object({ siteId: id, versionId: id });
 const tileIndex = z.string().regex(/^\d{1,6}$/, 'must be a whole number from 0').transform(Number);
 const tileParams = versionParams.extend({ z: tileIndex, x: tileIndex, y: tileIndex });
+// The style only makes the URL change with the look (shared/render/palette.ts); any style gets today's tiles.
+const tileQuery = z.strictObject({ style: z.coerce.number().int('must be a whole number').min(1).optional() });
 
 /** /api/sites/:siteId/map-versions: upload (mappers), list, preview, grid tiles, activate. */
 export function mapVersionsRoutes(services: Services) {
@@ -78,10 +80,11 @@ export function mapVersionsRoutes(services: Services) {
     res.type('png').send(png);
   });
 
-  router.get('/:versionId/tiles/:z/:x/:y.png', validate({ params: tileParams }), async (req, res) => {
+  router.get('/:versionId/tiles/:z/:x/:y.png', validate({ params: tileParams, query: tileQuery }), async (req, res) => {
     const { siteId, versionId, z: zoom, x, y } = res.locals.params;
     const tile = await services.mapVersions.tile(actorOf(res), siteId, versionId, zoom, x, y);
-    // A version's tile never changes: one ETag per version and tile, cached for a year.
+    // A version's tile never changes: one ETag per version, style and tile, cached for a year
+    // (the URL's ?style= changes with the style, so a new look is fetched anew).
     res.setHeader('ETag', tile.etag);
     res.setHeader('Cache-Control', 'private, max-age=31536000, immutable');
     if (req.fresh) {

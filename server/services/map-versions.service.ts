@@ -8,6 +8,7 @@ import { imageToGrid, type GreyImage } from '../../shared/grid/image-to-grid.js'
 import { checkImageName, parseMapMetadata } from '../../shared/grid/map-metadata.js';
 import { parsePgm } from '../../shared/grid/pgm.js';
 import { renderGridImage } from '../../shared/render/grid-image.js';
+import { TILE_STYLE } from '../../shared/render/palette.js';
 import { renderTile, tileCount, tilePyramid } from '../../shared/render/tiles.js';
 import { CellState, type MapMetadata, type OccupancyGrid } from '../../shared/types/grid.js';
 import type { Actor } from '../auth/actor.js';
@@ -178,7 +179,7 @@ export class MapVersionsService {
   /**
    * One 256 × 256 tile of a map version's grid in the map palette (tiles.ts): its ETag, fixed per
    * version and tile because a version's grid never changes, and a renderer run only when the
-   * client's copy is stale. Tiles outside the version's pyramid are refused with a 400.
+   * client's copy is stale; the tile style (palette.ts) is part of it. Tiles outside the version's pyramid are refused with a 400.
    */
   async tile(actor: Actor, siteId: string, id: string, z: number, x: number, y: number): Promise<{ etag: string; render: () => Promise<Buffer> }> {
     // Visibility first: another organization's version answers 404 before any cache talk.
@@ -187,7 +188,7 @@ export class MapVersionsService {
     if (z > maxZoom) throw badRequest(`Zoom ${z} is past this map version's deepest zoom ${maxZoom} (4 pixels per cell).`);
     const { columns, rows } = tileCount(version, z);
     if (x >= columns || y >= rows) throw badRequest(`Tile (${x}, ${y}) lies outside this map version at zoom ${z}: columns run 0 to ${columns - 1}, rows 0 to ${rows - 1}.`);
-    return { etag: `"${version.id}-${z}-${x}-${y}"`, render: async () => encodePng(renderTile(await this.grid(version), z, x, y)) };
+    return { etag: `"${version.id}-s${TILE_STYLE}-${z}-${x}-${y}"`, render: async () => encodePng(renderTile(await this.grid(version), z, x, y)) };
   }
 
   /** The site's active floor map version, or null. */

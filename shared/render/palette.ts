@@ -7,3 +7,10 @@ export const MAP_COLOURS = {
   missingStructure: [0x6a, 0x4b, 0xd6],
   unmappedStructure: [0x1c, 0x9a, 0x8a],
 } as const satisfies Record<string, readonly [number, number, number]>;
+
+/**
+ * Version of how tiles look (these colours and the tile rule). Tile URLs carry it as `?style=` and
+ * tile ETags include it, so bumping it after a colour change makes browsers fetch fresh tiles
+ * despite their year-long immutable caching.
+ */
+export const TILE_STYLE = 1;

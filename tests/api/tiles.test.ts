@@ -29,7 +29,8 @@ describe('map version grid tiles', () => {
     const res = await request(t.app).get(tilePath(ids.ambergateSite, ambergateMap, 0, 0, 0)).set('Cookie', owen);
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toBe('image/png');
-    expect(res.headers.etag).toBe(`"${ambergateMap}-0-0-0"`);
+    // The ETag names version, tile style (TILE_STYLE in shared/render/palette.ts) and tile.
+    expect(res.headers.etag).toBe(`"${ambergateMap}-s1-0-0-0"`);
     expect(res.headers['cache-control']).toBe('private, max-age=31536000, immutable');
     // Decoded with pngjs@7 (the reference PNG reader), not with our encoder.
     const png = PNG.sync.read(res.body as Buffer);
@@ -43,11 +44,11 @@ describe('map version grid tiles', () => {
   });
 
   it('when the client already holds the tile, then 304 with no body', async () => {
-    const res = await request(t.app).get(tilePath(ids.ambergateSite, ambergateMap, 2, 0, 0)).set('Cookie', owen).set('If-None-Match', `"${ambergateMap}-2-0-0"`);
+    const res = await request(t.app).get(tilePath(ids.ambergateSite, ambergateMap, 2, 0, 0)).set('Cookie', owen).set('If-None-Match', `"${ambergateMap}-s1-2-0-0"`);
     expect(res.status).toBe(304);
-    expect(res.headers.etag).toBe(`"${ambergateMap}-2-0-0"`);
+    expect(res.headers.etag).toBe(`"${ambergateMap}-s1-2-0-0"`);
     expect(res.body).toEqual({});
-    const stale = await request(t.app).get(tilePath(ids.ambergateSite, ambergateMap, 2, 0, 0)).set('Cookie', owen).set('If-None-Match', `"${ambergateMap}-1-0-0"`);
+    const stale = await request(t.app).get(tilePath(ids.ambergateSite, ambergateMap, 2, 0, 0)).set('Cookie', owen).set('If-None-Match', `"${ambergateMap}-s1-1-0-0"`);
     expect(stale.status).toBe(200);
   });
 
@@ -60,7 +61,7 @@ describe('map version grid tiles', () => {
   });
 
   it('when a customer user asks for another organization’s tile, then 404 even with a matching If-None-Match', async () => {
-    const own = await request(t.app).get(tilePath(ids.corvaneSite, corvaneMap, 0, 0, 0)).set('Cookie', owen).set('If-None-Match', `"${corvaneMap}-0-0-0"`);
+    const own = await request(t.app).get(tilePath(ids.corvaneSite, corvaneMap, 0, 0, 0)).set('Cookie', owen).set('If-None-Match', `"${corvaneMap}-s1-0-0-0"`);
     expect(own.status).toBe(404);
     const mixed = await request(t.app).get(tilePath(ids.ambergateSite, corvaneMap, 0, 0, 0)).set('Cookie', owen);
     expect(mixed.status).toBe(404);

@@ -74,6 +74,10 @@ export class ScanBatch {
   @Column({ type: 'integer', default: 0 })
   scans: number;
 
+  /** Pose reports received (lines with a pose and no beams; they only feed the paths layer). */
+  @Column({ type: 'integer', default: 0 })
+  poses: number;
+
   @Column({ type: 'integer', default: 0 })
   beams: number;
 

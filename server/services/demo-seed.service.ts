@@ -31,6 +31,8 @@ const ORGS = [
   { name: 'Corvane Parts & Supply', kind: 'customer' as const, timezone: 'America/Chicago' },
 ];
 
+/** Interval of the demo robots' pose reports, ms (robots report their pose every second or two: from memory). */
+const POSE_REPORT_STEP_MS = 2000;
 /** Days of simulated evidence each demo site gets, ending yesterday (site-local). */
 export const DEMO_DAYS = 28;
 
@@ -145,6 +147,16 @@ export async function seedDemoEvidence(db: DataSource, services: Services, log: 
       const [, shiftEnd] = scenario.workingWindow(day);
       const { figures } = await services.ingest.countLines(site, lines, fileName, today, new Date(Math.min(shiftEnd, today.getTime())));
       scans += figures.scans;
+    }
+    // The robots' pose reports of the last simulated day, every 2 s, for the map's paths layer.
+    const lastDay = days - 1;
+    const posesFile = `simulated-poses-${scenario.truth.dayDates[lastDay]}.jsonl`;
+    if (days > 0 && !(await db.getRepository(ScanBatch).existsBy({ siteId: site.id, fileName: posesFile }))) {
+      const poses = (function* () {
+        for (const report of scenario.posesForDay(lastDay, POSE_REPORT_STEP_MS)) yield JSON.stringify(report);
+      })();
+      const [, shiftEnd] = scenario.workingWindow(lastDay);
+      await services.ingest.countLines(site, poses, posesFile, today, new Date(Math.min(shiftEnd, today.getTime())));
     }
     progress.sitesDone++;
     log.info({ site: s.name, days, scans, ms: Date.now() - started }, 'seeded demo evidence');

@@ -43,6 +43,7 @@ function batchView(b: ScanBatch) {
     bytesTotal: b.bytesTotal,
     lines: b.lines,
     scans: b.scans,
+    poses: b.poses,
     beams: b.beams,
     returns: b.returns,
     explained: b.explained,
@@ -131,7 +132,7 @@ export class IngestService {
     const lines = text.toString('utf8').split('\n');
     for (let k = 0; k < lines.length; k++) acc.addLine(k + 1, lines[k].replace(/\r$/, ''));
     const f = acc.figures;
-    if (f.scans === 0) {
+    if (f.scans === 0 && f.poses === 0) {
       acc.spill.close();
       throw new HttpError(422, 'no_valid_scans', f.lines === 0 ? 'The batch holds no scan lines.' : `None of the batch's ${f.lines} lines could be counted; nothing was stored.`, { rejectedCount: f.rejectedCount, rejectedLines: f.rejectedLines });
     }
@@ -208,10 +209,10 @@ export class IngestService {
     const f = b.figures;
     raw
       .prepare(
-        'INSERT INTO scan_batches (id, site_id, robot_id, map_version_id, source, file_name, idempotency_key, content_hash, status, received_at, finished_at, bytes_read, bytes_total, lines, scans, beams, returns, explained, out_of_map, rejected_count, rejected_lines, days, error) ' +
-          "VALUES (?, ?, ?, ?, ?, ?, ?, ?, 'counted', ?, ?, 0, NULL, ?, ?, ?, ?, ?, ?, ?, ?, ?, NULL)",
+        'INSERT INTO scan_batches (id, site_id, robot_id, map_version_id, source, file_name, idempotency_key, content_hash, status, received_at, finished_at, bytes_read, bytes_total, lines, scans, poses, beams, returns, explained, out_of_map, rejected_count, rejected_lines, days, error) ' +
+          "VALUES (?, ?, ?, ?, ?, ?, ?, ?, 'counted', ?, ?, 0, NULL, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, NULL)",
       )
-      .run(b.id, b.siteId, b.robotId, b.mapVersionId, b.source, b.fileName, b.idempotencyKey, b.hash, sqliteDatetime(b.receivedAt), sqliteDatetime(new Date()), f.lines, f.scans, f.beams, f.returns, f.explained, f.outOfMap, f.rejectedCount, JSON.stringify(f.rejectedLines), JSON.stringify(f.days));
+      .run(b.id, b.siteId, b.robotId, b.mapVersionId, b.source, b.fileName, b.idempotencyKey, b.hash, sqliteDatetime(b.receivedAt), sqliteDatetime(new Date()), f.lines, f.scans, f.poses, f.beams, f.returns, f.explained, f.outOfMap, f.rejectedCount, JSON.stringify(f.rejectedLines), JSON.stringify(f.days));
   }
 
   /**
@@ -311,8 +312,8 @@ export class IngestService {
     }
     const f = acc.figures;
     const contentHash = hash.digest('hex');
-    const figures = { bytesRead, lines: f.lines, scans: f.scans, beams: f.beams, returns: f.returns, explained: f.explained, outOfMap: f.outOfMap, rejectedCount: f.rejectedCount, rejectedLines: f.rejectedLines, days: f.days };
-    if (f.scans === 0) {
+    const figures = { bytesRead, lines: f.lines, scans: f.scans, poses: f.poses, beams: f.beams, returns: f.returns, explained: f.explained, outOfMap: f.outOfMap, rejectedCount: f.rejectedCount, rejectedLines: f.rejectedLines, days: f.days };
+    if (f.scans === 0 && f.poses === 0) {
       acc.spill.close();
       await repo.update(batch.id, { ...figures, status: 'rejected', error: f.lines === 0 ? 'The file holds no scan lines.' : 'No line of the file could be counted; nothing was stored.', finishedAt: new Date() });
       return;
@@ -325,8 +326,8 @@ export class IngestService {
         return false;
       }
       raw
-        .prepare("UPDATE scan_batches SET status = 'counted', content_hash = ?, bytes_read = ?, lines = ?, scans = ?, beams = ?, returns = ?, explained = ?, out_of_map = ?, rejected_count = ?, rejected_lines = ?, days = ?, finished_at = ? WHERE id = ?")
-        .run(contentHash, bytesRead, f.lines, f.scans, f.beams, f.returns, f.explained, f.outOfMap, f.rejectedCount, JSON.stringify(f.rejectedLines), JSON.stringify(f.days), sqliteDatetime(new Date()), batch.id);
+        .prepare("UPDATE scan_batches SET status = 'counted', content_hash = ?, bytes_read = ?, lines = ?, scans = ?, poses = ?, beams = ?, returns = ?, explained = ?, out_of_map = ?, rejected_count = ?, rejected_lines = ?, days = ?, finished_at = ? WHERE id = ?")
+        .run(contentHash, bytesRead, f.lines, f.scans, f.poses, f.beams, f.returns, f.explained, f.outOfMap, f.rejectedCount, JSON.stringify(f.rejectedLines), JSON.stringify(f.days), sqliteDatetime(new Date()), batch.id);
       return true;
     });
     if (duplicateOf) {

@@ -3,7 +3,7 @@ import { DateTime } from 'luxon';
 import { encodeChunkCounters, splitIntoChunks } from '../../shared/evidence/chunks.js';
 import { frameU, frameV, makeGridFrame } from '../../shared/grid/transform.js';
 import { accumulateScan, createCounters, type EvidenceCounters } from '../../shared/scan/accumulate.js';
-import { parseScanLine } from '../../shared/scan/scan-record.js';
+import { parseLogLine } from '../../shared/scan/scan-record.js';
 import { TrailThinner, type TrailPoints } from '../../shared/scan/trail.js';
 import type { OccupancyGrid } from '../../shared/types/grid.js';
 import type { Robot } from '../entities/index.js';
@@ -56,6 +56,8 @@ export interface PendingTrail {
 export interface BatchFigures {
   lines: number;
   scans: number;
+  /** Pose reports (lines with a pose and no beams), kept for the paths layer only. */
+  poses: number;
   beams: number;
   returns: number;
   explained: number;
@@ -113,7 +115,7 @@ export class ScanAccumulator {
   private lastDay = { start: Infinity, end: -Infinity, day: '' };
   // The stat and block counters the current scan's returns are added to (set before each scan).
   private current: { stat: PendingStat; blocks: Uint32Array } | null = null;
-  readonly figures: BatchFigures = { lines: 0, scans: 0, beams: 0, returns: 0, explained: 0, outOfMap: 0, rejectedCount: 0, rejectedLines: [], days: [] };
+  readonly figures: BatchFigures = { lines: 0, scans: 0, poses: 0, beams: 0, returns: 0, explained: 0, outOfMap: 0, rejectedCount: 0, rejectedLines: [], days: [] };
 
   constructor(private readonly ctx: AccumulatorContext) {
     const cells = ctx.grid.width * ctx.grid.height;
@@ -143,8 +145,16 @@ export class ScanAccumulator {
   addLine(lineNo: number, text: string): void {
     if (text.trim() === '') return;
     this.figures.lines++;
-    const parsed = parseScanLine(text, { now: this.ctx.now, expectedRobot: this.ctx.expectedRobot });
+    const parsed = parseLogLine(text, { now: this.ctx.now, expectedRobot: this.ctx.expectedRobot });
     if (!parsed.ok) return this.reject(lineNo, parsed.reason);
+    if ('poseReport' in parsed) {
+      const report = parsed.poseReport;
+      const reporter = this.ctx.robotsByName.get(report.robot);
+      if (!reporter) return this.reject(lineNo, `The robot "${report.robot}" is not registered at this site.`);
+      this.trailFor(reporter.id, this.dayOf(report.timeMs)).add(report.timeMs, report.pose[0], report.pose[1]);
+      this.figures.poses++;
+      return;
+    }
     const scan = parsed.scan;
     const robot = this.ctx.robotsByName.get(scan.robot);
     if (!robot) return this.reject(lineNo, `The robot "${scan.robot}" is not registered at this site.`);

@@ -125,47 +125,91 @@ function readRanges(obj: Record<string, unknown>, maxBeams: number): Float64Arra
   return out;
 }
 
-/**
- * Parses and validates one JSON Lines scan record; returns the scan (ranges in metres, angles in
- * radians) or a one-sentence reason for refusing the line. Never throws.
- */
-export function parseScanLine(line: string, ctx: ScanLineContext): ScanLineResult {
-  if (line.trim() === '') return { ok: false, reason: 'The line is empty.' };
+/** A pose report: where a robot was between scans (no beams), for the map's paths layer. */
+export interface PoseReport {
+  t: string;
+  timeMs: number;
+  robot: string;
+  /** Robot base pose in the map frame: x, y in metres, theta in radians. */
+  pose: [number, number, number];
+}
+
+/** Result of parsing one log line: a scan, a pose report, or a readable reason for refusing it. */
+export type LogLineResult = ScanLineResult | { ok: true; poseReport: PoseReport };
+
+/** Reads the JSON object of a line, or the reason it is not one. */
+function readObject(line: string): Record<string, unknown> | { refused: string } {
+  if (line.trim() === '') return { refused: 'The line is empty.' };
   let doc: unknown;
   try {
     doc = JSON.parse(line);
   } catch (e) {
     const detail = e instanceof Error ? e.message.replace(/\.$/, '') : String(e);
-    return { ok: false, reason: `The line is not valid JSON (${detail}).` };
+    return { refused: `The line is not valid JSON (${detail}).` };
   }
-  if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) {
-    return { ok: false, reason: 'The line is not a JSON object.' };
+  if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) return { refused: 'The line is not a JSON object.' };
+  return doc as Record<string, unknown>;
+}
+
+function readRobot(obj: Record<string, unknown>, ctx: ScanLineContext): string {
+  const robot = nonEmptyString(obj, 'robot');
+  if (ctx.expectedRobot !== undefined && robot !== ctx.expectedRobot) {
+    refuse(`The scan is from robot "${robot}", but this token belongs to robot "${ctx.expectedRobot}".`);
   }
-  const obj = doc as Record<string, unknown>;
+  return robot;
+}
+
+function readScan(obj: Record<string, unknown>, ctx: ScanLineContext): ScanRecord {
+  const [t, timeMs] = readTime(obj, ctx);
+  const robot = readRobot(obj, ctx);
+  const scanner = nonEmptyString(obj, 'scanner');
+  const pose = readPose(obj);
+  const angleMin = finiteNumber(obj, 'angleMin');
+  const angleIncrement = finiteNumber(obj, 'angleIncrement');
+  if (angleIncrement === 0) refuse('The scan\'s "angleIncrement" must not be 0.');
+  const rangeMin = finiteNumber(obj, 'rangeMin');
+  const rangeMax = finiteNumber(obj, 'rangeMax');
+  if (rangeMin < 0) refuse('The scan\'s "rangeMin" must not be negative.');
+  if (rangeMin >= rangeMax) refuse('The scan\'s "rangeMin" must be smaller than its "rangeMax".');
+  const ranges = readRanges(obj, ctx.maxBeams ?? DEFAULT_MAX_BEAMS);
+  return { t, timeMs, robot, scanner, pose, angleMin, angleIncrement, rangeMin, rangeMax, ranges };
+}
+
+/** Runs a reader and turns a refusal into its result; anything else thrown is a bug and escapes. */
+function attempt<T>(read: () => T): T | { ok: false; reason: string } {
   try {
-    const [t, timeMs] = readTime(obj, ctx);
-    const robot = nonEmptyString(obj, 'robot');
-    if (ctx.expectedRobot !== undefined && robot !== ctx.expectedRobot) {
-      refuse(`The scan is from robot "${robot}", but this token belongs to robot "${ctx.expectedRobot}".`);
-    }
-    const scanner = nonEmptyString(obj, 'scanner');
-    const pose = readPose(obj);
-    const angleMin = finiteNumber(obj, 'angleMin');
-    const angleIncrement = finiteNumber(obj, 'angleIncrement');
-    if (angleIncrement === 0) refuse('The scan\'s "angleIncrement" must not be 0.');
-    const rangeMin = finiteNumber(obj, 'rangeMin');
-    const rangeMax = finiteNumber(obj, 'rangeMax');
-    if (rangeMin < 0) refuse('The scan\'s "rangeMin" must not be negative.');
-    if (rangeMin >= rangeMax) refuse('The scan\'s "rangeMin" must be smaller than its "rangeMax".');
-    const ranges = readRanges(obj, ctx.maxBeams ?? DEFAULT_MAX_BEAMS);
-    return {
-      ok: true,
-      scan: { t, timeMs, robot, scanner, pose, angleMin, angleIncrement, rangeMin, rangeMax, ranges },
-    };
+    return read();
   } catch (e) {
     if (e instanceof Refusal) return { ok: false, reason: e.reason };
     throw e;
   }
+}
+
+/**
+ * Parses and validates one JSON Lines scan record; returns the scan (ranges in metres, angles in
+ * radians) or a one-sentence reason for refusing the line. Never throws.
+ */
+export function parseScanLine(line: string, ctx: ScanLineContext): ScanLineResult {
+  const obj = readObject(line);
+  if ('refused' in obj) return { ok: false, reason: obj.refused as string };
+  return attempt(() => ({ ok: true as const, scan: readScan(obj, ctx) }));
+}
+
+/**
+ * Parses one line of a robot's log: a scan as `parseScanLine` reads it, or a pose report — a line
+ * with "t", "robot" and "pose" and neither "scanner" nor "ranges" — that only says where the robot
+ * was (robots may send them between scans so that the paths layer shows where they drove).
+ */
+export function parseLogLine(line: string, ctx: ScanLineContext): LogLineResult {
+  const obj = readObject(line);
+  if ('refused' in obj) return { ok: false, reason: obj.refused as string };
+  if (!('scanner' in obj) && !('ranges' in obj)) {
+    return attempt(() => {
+      const [t, timeMs] = readTime(obj, ctx);
+      return { ok: true as const, poseReport: { t, timeMs, robot: readRobot(obj, ctx), pose: readPose(obj) } };
+    });
+  }
+  return attempt(() => ({ ok: true as const, scan: readScan(obj, ctx) }));
 }
 
 /** True when range r (metres) is a return for this scan: rangeMin ≤ r < rangeMax (NaN never is). */

@@ -12,6 +12,13 @@ import { createSnapshot, planTraffic, snapshotTraffic, type DayTraffic, type Tra
 import { buildWarehouse, type WarehouseLayout, type WarehouseOptions } from './warehouse.js';
 import { StaticWorld } from './world-index.js';
 
+/** One pose report in its JSON-line form (no beams; it feeds the paths layer). */
+export interface PoseLogLine {
+  t: string;
+  robot: string;
+  pose: [number, number, number];
+}
+
 /** One scan in its JSON-line form (DESIGN §4.2), as `parseScanLine` reads it: pose in metres/radians, ranges in metres, null = no return. */
 export interface ScanLogLine {
   t: string;
@@ -104,6 +111,8 @@ export interface Scenario {
   workingWindow(day: number): [number, number];
   /** Lazily generates day `day`'s scans in time order (all robots, all scanners). */
   scansForDay(day: number): Generator<ScanLogLine>;
+  /** Pose reports of every robot every `stepMs` over a day's working window, on the same routes as that day's scans, in time order. */
+  posesForDay(day: number, stepMs: number): Generator<PoseLogLine>;
 }
 
 /** Map resolution of the stored map, metres per cell (typical 5 cm: common practice). */
@@ -209,6 +218,29 @@ export function createScenario(options: ScenarioOptions): Scenario {
     return planTraffic(layout, seed, day, (b - a) / 1000, options.traffic);
   };
 
+  // A robot's scan times and route phase for a day, from its own random stream.
+  const robotStream = (day: number, k: number, start: number, span: number) => {
+    const r = robots[k];
+    const rng = createRng(mixSeed(seed, day, k, 0x5ca4));
+    const times = new Float64Array(scansPerDay);
+    const step = span / Math.max(1, scansPerDay);
+    for (let q = 0; q < scansPerDay; q++) times[q] = start + (q + rng.next()) * step;
+    return { robot: r, rng, times, phase: rng.range(0, r.route.length), next: 0 };
+  };
+
+  function* posesForDay(day: number, stepMs: number): Generator<PoseLogLine> {
+    const [start, end] = workingWindow(day);
+    const phases = robots.map((_, k) => robotStream(day, k, start, end - start).phase);
+    for (let tMs = start; tMs < end; tMs += stepMs) {
+      const t = new Date(tMs).toISOString();
+      for (let k = 0; k < robots.length; k++) {
+        const r = robots[k];
+        const [x, y, theta] = poseOnRoute(r.route, phases[k] + (r.speed * (tMs - start)) / 1000);
+        yield { t, robot: r.name, pose: [round(x, 3), round(y, 3), round(wrapAngle(theta), 4)] };
+      }
+    }
+  }
+
   function* scansForDay(day: number): Generator<ScanLogLine> {
     const world = worldForDay(day);
     const traffic = trafficForDay(day);
@@ -216,13 +248,7 @@ export function createScenario(options: ScenarioOptions): Scenario {
     const span = end - start;
     // Each robot draws its scan times and noise from its own stream, so adding a robot or
     // generating days out of order changes nothing for the others.
-    const streams = robots.map((r, k) => {
-      const rng = createRng(mixSeed(seed, day, k, 0x5ca4));
-      const times = new Float64Array(scansPerDay);
-      const step = span / Math.max(1, scansPerDay);
-      for (let q = 0; q < scansPerDay; q++) times[q] = start + (q + rng.next()) * step;
-      return { robot: r, rng, times, phase: rng.range(0, r.route.length), next: 0 };
-    });
+    const streams = robots.map((r, k) => robotStream(day, k, start, span));
     const snapshot = createSnapshot(traffic.people.length, 1);
     const ranges = new Float64Array(scanner.beams);
     const angleMin = scanner.angleMin;
@@ -262,5 +288,5 @@ export function createScenario(options: ScenarioOptions): Scenario {
     }
   }
 
-  return { layout, map, metadata, truth, robots, scanner, worldForDay, trafficForDay, workingWindow, scansForDay };
+  return { layout, map, metadata, truth, robots, scanner, worldForDay, trafficForDay, workingWindow, scansForDay, posesForDay };
 }

@@ -80,3 +80,29 @@ describe('robot paths', () => {
     expect(other.status).toBe(404);
   });
 });
+
+describe('pose reports', () => {
+  let t: TestApp;
+  let ids: Awaited<ReturnType<typeof demoIds>>;
+
+  beforeAll(async () => {
+    t = await createTestApp();
+    ids = await demoIds(t.dataSource);
+    const { pgm, yaml } = roomMap();
+    const map = await t.services.mapVersions.upload(ids.admin, ids.ambergateSite, { kind: 'floor', label: 'pose room', image: { originalname: 'room.pgm', buffer: pgm }, metadataFile: { originalname: 'room.yaml', buffer: yaml } });
+    await t.services.mapVersions.activate(ids.admin, ids.ambergateSite, map.id);
+  });
+  afterAll(() => t.close());
+
+  it('when a batch holds only pose reports, then it is counted for the paths with no evidence, and a bad report is refused with its line', async () => {
+    const robot = await t.dataSource.getRepository(Robot).findOneByOrFail({ id: ids.ambergateRobot });
+    const pose = (s: number, x: number) => JSON.stringify({ t: new Date(Date.UTC(2026, 10, 3, 9, 0, s)).toISOString(), robot: 'AMR-01', pose: [x, 1, 0] });
+    const body = [pose(0, 0.2), pose(2, 1.3), pose(4, 1.8), JSON.stringify({ t: '2026-11-03T09:00:06Z', robot: 'AMR-01', pose: [1, 'a', 0] })].join('\n');
+    const { batch } = await t.services.ingest.ingestRobotBatch(robot, Buffer.from(body), 'poses-only');
+    expect(batch).toMatchObject({ scans: 0, poses: 3, beams: 0, rejectedCount: 1 });
+    expect(batch.rejectedLines[0]).toMatchObject({ line: 4, reason: expect.stringMatching(/pose/) });
+    const paths = await t.services.paths.recent(ids.admin, ids.ambergateSite, 24);
+    // 1.3 → 1.8 m is under the 1 m step and 2 s under the 30 s heartbeat, so the third pose is thinned away.
+    expect(paths!.robots[0].tracks).toEqual([[[0.2, 1], [1.3, 1]]]);
+  });
+});

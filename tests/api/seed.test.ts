@@ -15,10 +15,17 @@ describe('demo seed', () => {
     expect(await seedDemo(db, services, log, { days: 2, today: new Date('2026-11-20T12:00:00Z') })).toBe(true);
     const counts = async () => [await db.getRepository(Organization).count(), await db.getRepository(User).count(), await db.getRepository(Site).count(), await db.getRepository(ScanBatch).count()];
     const first = await counts();
-    expect(first).toEqual([3, 5, 5, 10]);
+    // Per site: one scan batch a day and one batch of the last day's pose reports.
+    expect(first).toEqual([3, 5, 5, 15]);
     expect(await db.getRepository(MapVersion).countBy({ status: 'active', kind: 'floor' })).toBe(5);
     const batches = await db.getRepository(ScanBatch).find();
-    expect(batches.every((b) => b.status === 'counted' && b.rejectedCount === 0 && b.scans > 0)).toBe(true);
+    expect(batches.every((b) => b.status === 'counted' && b.rejectedCount === 0)).toBe(true);
+    expect(batches.filter((b) => b.scans > 0)).toHaveLength(10);
+    expect(batches.filter((b) => b.poses > 0 && b.scans === 0)).toHaveLength(5);
+    const admin = await db.getRepository(User).findOneByOrFail({ role: 'admin' });
+    const actor = { id: admin.id, email: admin.email, name: admin.name, role: admin.role, organizationId: admin.organizationId };
+    const paths = await services.paths.recent(actor, (await db.getRepository(Site).findOneByOrFail({ name: 'Fennick Cross DC' })).id, 24);
+    expect(paths!.robots.map((r) => r.name)).toEqual(['AMR-01', 'AMR-02', 'AMR-03', 'AMR-04']);
     expect(new Set(batches.flatMap((b) => b.days))).toContain('2026-11-19');
     const fennick = await db.getRepository(Site).findOneByOrFail({ name: 'Fennick Cross DC' });
     expect((await db.getRepository(Robot).findBy({ siteId: fennick.id })).map((r) => r.name).sort()).toEqual(['AMR-01', 'AMR-02', 'AMR-03', 'AMR-04']);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { isReturn, parseScanLine, type ScanLineContext } from '../../../../shared/scan/scan-record.js';
+import { isReturn, parseLogLine, parseScanLine, type ScanLineContext } from '../../../../shared/scan/scan-record.js';
 
 const NOW = new Date('2026-11-03T08:20:00.000Z');
 const ctx: ScanLineContext = { now: NOW };
@@ -127,5 +127,20 @@ describe('parseScanLine', () => {
       'The scan is from robot "AMR-07", but this token belongs to robot "AMR-12".',
     );
     expect(parseScanLine(JSON.stringify(GOOD), { now: NOW, expectedRobot: 'AMR-07' }).ok).toBe(true);
+  });
+});
+
+describe('parseLogLine', () => {
+  const NOW_CTX: ScanLineContext = { now: new Date('2026-11-04T00:00:00Z') };
+  it('when a line has a pose and neither scanner nor ranges, then it is a pose report', () => {
+    const r = parseLogLine(JSON.stringify({ t: '2026-11-03T08:00:00Z', robot: 'AMR-07', pose: [1.5, 2, 0.1] }), NOW_CTX);
+    expect(r).toEqual({ ok: true, poseReport: { t: '2026-11-03T08:00:00Z', timeMs: Date.UTC(2026, 10, 3, 8), robot: 'AMR-07', pose: [1.5, 2, 0.1] } });
+  });
+
+  it('when a pose report has a bad pose or a scan lacks its ranges, then each is refused with its reason', () => {
+    const bad = parseLogLine(JSON.stringify({ t: '2026-11-03T08:00:00Z', robot: 'AMR-07', pose: [1.5, null, 0] }), NOW_CTX);
+    expect(bad).toEqual({ ok: false, reason: expect.stringMatching(/"pose"/) });
+    const noRanges = parseLogLine(JSON.stringify({ t: '2026-11-03T08:00:00Z', robot: 'AMR-07', scanner: 'front', pose: [1, 1, 0] }), NOW_CTX);
+    expect(noRanges.ok).toBe(false);
   });
 });

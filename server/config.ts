@@ -48,7 +48,7 @@ export interface Config {
   webDir: string;
   smtp: { host: string | null; port: number; secure: boolean; user?: string; password?: string; from: string };
   logLevel: string;
-  /** Sign-in attempts allowed per 15 minutes: per address and per account. */
+  /** Failed sign-in attempts allowed per 15 minutes: per address and per account. */
   signInLimits: { perAddress: number; perAccount: number };
 }
 

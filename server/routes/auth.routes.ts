@@ -18,8 +18,10 @@ export function authRoutes(services: Services, config: Config) {
   const limited = () => {
     throw new HttpError(429, 'rate_limited', 'Too many sign-in attempts. Please wait 15 minutes and try again.');
   };
-  // Two limits: per address (many accounts from one place) and per account (one account from many places).
-  const perAddress = rateLimit({ windowMs, limit: config.signInLimits.perAddress, standardHeaders: 'draft-8', legacyHeaders: false, handler: limited });
+  // Two limits on failed attempts: per address (guessing many accounts from one place) and per
+  // account (one account from many places). Successful sign-ins do not count, so that a whole
+  // shift signing in behind one office address is never locked out.
+  const perAddress = rateLimit({ windowMs, limit: config.signInLimits.perAddress, skipSuccessfulRequests: true, standardHeaders: 'draft-8', legacyHeaders: false, handler: limited });
   const perAccount = rateLimit({
     windowMs,
     limit: config.signInLimits.perAccount,

@@ -46,6 +46,20 @@ describe('sign-in and sessions', () => {
     expect((await request(t.app).get('/api/auth/me').set('Cookie', cookie)).status).toBe(401);
   });
 
+  it('when many people sign in from one address, then they are not limited, but failures from it are', async () => {
+    const office = await createTestApp({ config: { signInLimits: { perAddress: 3, perAccount: 1000 } } });
+    try {
+      for (let k = 0; k < 6; k++) await signIn(office.app, 'owen.viewer@ambergate.example', 'demo-viewer-2026');
+      for (const email of ['a@ambergate.example', 'b@ambergate.example', 'c@ambergate.example']) {
+        expect((await request(office.app).post('/api/auth/sign-in').send({ email, password: 'not-the-password' })).status).toBe(401);
+      }
+      const limited = await request(office.app).post('/api/auth/sign-in').send({ email: 'owen.viewer@ambergate.example', password: 'demo-viewer-2026' });
+      expect(limited.status).toBe(429);
+    } finally {
+      await office.close();
+    }
+  });
+
   it('when one account fails too often, then further attempts get 429 with a readable message', async () => {
     const attempt = () => request(t.app).post('/api/auth/sign-in').send({ email: 'priya.manager@corvane.example', password: 'wrong-wrong-wrong' });
     for (let k = 0; k < 4; k++) expect((await attempt()).status).toBe(401);

@@ -6,6 +6,7 @@ import { run as ingest } from './ingest.bench.js';
 import { run as tiles } from './tiles.bench.js';
 import { run as changeDetection } from './change-detection.bench.js';
 import { run as detect } from './detect.bench.js';
+import { run as bundle } from './bundle.bench.js';
 
 const benches: [string, () => Promise<void>][] = [['traverse', traverse]];
 benches.push(['simulate', simulate]);
@@ -13,6 +14,7 @@ benches.push(['ingest', ingest]);
 benches.push(['tiles', tiles]);
 benches.push(['change detection', changeDetection]);
 benches.push(['detect', detect]);
+benches.push(['bundle', bundle]);
 
 for (const [name, run] of benches) {
   console.log(`\n== ${name} ==`);

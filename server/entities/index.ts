@@ -2,6 +2,7 @@ import { AgreementBlocks } from './agreement-blocks.entity.js';
 import { AuditEvent } from './audit-event.entity.js';
 import { DailyStat } from './daily-stat.entity.js';
 import { EvidenceChunk } from './evidence-chunk.entity.js';
+import { HourlyTraffic } from './hourly-traffic.entity.js';
 import { MapVersion } from './map-version.entity.js';
 import { ScanBatch } from './scan-batch.entity.js';
 import { ScanSample } from './scan-sample.entity.js';
@@ -17,7 +18,7 @@ import { Site } from './site.entity.js';
 import { User } from './user.entity.js';
 import { Zone } from './zone.entity.js';
 
-export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, Invitation, JobRun, MapVersion, Organization, PoseTrail, Robot, RobotFlag, RobotToken, ScanBatch, ScanSample, Session, Site, User, Zone };
+export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, HourlyTraffic, Invitation, JobRun, MapVersion, Organization, PoseTrail, Robot, RobotFlag, RobotToken, ScanBatch, ScanSample, Session, Site, User, Zone };
 
 /** Every entity class, passed to the DataSource as classes (not globs). */
-export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail];
+export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic];

@@ -7,7 +7,7 @@ import { exclusive } from '../transaction-lock.js';
 import type { PendingChunk } from './chunk-spill.js';
 import { encodeTrail } from '../../shared/scan/trail.js';
 import { newId } from './ids.js';
-import type { PendingBlocks, PendingSample, PendingStat, PendingTrail } from './scan-accumulator.js';
+import type { PendingBlocks, PendingHour, PendingSample, PendingStat, PendingTrail } from './scan-accumulator.js';
 
 const CHUNK_CELLS = DEFAULT_CHUNK_SIZE * DEFAULT_CHUNK_SIZE;
 const UINT32_MAX = 0xffff_ffff;
@@ -26,6 +26,7 @@ export interface BatchEvidence {
   blockCells: number;
   samples: PendingSample[];
   trails: PendingTrail[];
+  hours: PendingHour[];
 }
 
 /** Most raw scans kept per robot, scanner and day for mount estimation (product choice). */
@@ -83,6 +84,10 @@ export class EvidenceStore {
         'ON CONFLICT (map_version_id, robot_id, scanner, day) DO UPDATE SET count = excluded.count, data = excluded.data',
     );
     const addTrail = raw.prepare('INSERT INTO pose_trails (id, map_version_id, robot_id, day, first_ms, last_ms, count, data) VALUES (?, ?, ?, ?, ?, ?, ?, ?)');
+    const addHour = raw.prepare(
+      'INSERT INTO hourly_traffic (site_id, hour_start_ms, scans, returns) VALUES (?, ?, ?, ?) ' +
+        'ON CONFLICT (site_id, hour_start_ms) DO UPDATE SET scans = scans + excluded.scans, returns = returns + excluded.returns',
+    );
     const now = sqliteDatetime(new Date());
     const run = raw.transaction(() => {
       if (!guard(raw)) return false;
@@ -115,6 +120,7 @@ export class EvidenceStore {
         const text = (stored ? inflateRawSync(stored.data).toString('utf8') + '\n' : '') + take.join('\n');
         upsertSample.run(mapVersionId, smp.robotId, smp.scanner, smp.day, have + take.length, deflateRawSync(Buffer.from(text), { level: 6 }));
       }
+      for (const h of evidence.hours) addHour.run(siteId, h.hourStartMs, h.scans, h.returns);
       for (const trail of evidence.trails) {
         const { t } = trail.points;
         if (t.length === 0) continue;

@@ -16,6 +16,7 @@ import { RobotsService } from './robots.service.js';
 import { ScannerCheckService } from './scanner-check.service.js';
 import { SiteSettingsService } from './site-settings.service.js';
 import { SitesService } from './sites.service.js';
+import { TrafficService } from './traffic.service.js';
 import { UsersService } from './users.service.js';
 
 /** Builds every service once per app; routes, jobs and the CLI call these. */
@@ -35,6 +36,7 @@ export function createServices(db: DataSource, config: Config, sessions: Session
     demoSeed: new DemoSeedProgress(),
     mapVersions,
     paths: new PathsService(db, sites, mapVersions),
+    traffic: new TrafficService(db),
     ingest: new IngestService(db, sites, mapVersions, log),
     audit,
     sites,

@@ -102,9 +102,9 @@ export class IngestService {
   }
 
   private commitAccumulated(version: MapVersion, site: Site, acc: ScanAccumulator, guard: (raw: Database) => boolean) {
-    const { stats, blocks, samples, trails } = acc.finish();
+    const { stats, blocks, samples, trails, hours } = acc.finish();
     const blockCells = Math.max(1, Math.round(siteSettings(site).agreementBlockM / version.resolution));
-    return this.store.commit(version.id, site.id, { chunks: acc.spill.chunks(), stats, blocks, blockCells, samples, trails }, guard).finally(() => acc.spill.close());
+    return this.store.commit(version.id, site.id, { chunks: acc.spill.chunks(), stats, blocks, blockCells, samples, trails, hours }, guard).finally(() => acc.spill.close());
   }
 
   private async robotsByName(siteId: string) {

@@ -1,6 +1,7 @@
+import { DateTime } from 'luxon';
 import type { Logger } from 'pino';
 import { LessThan, type DataSource } from 'typeorm';
-import { AgreementBlocks, EvidenceChunk, JobRun, MapVersion, PoseTrail, ScanSample, Site } from '../entities/index.js';
+import { AgreementBlocks, EvidenceChunk, HourlyTraffic, JobRun, MapVersion, PoseTrail, ScanSample, Site } from '../entities/index.js';
 import type { JobName } from '../entities/job-run.entity.js';
 import { notFound } from '../http-error.js';
 import type { DetectionService } from './detection.service.js';
@@ -72,15 +73,18 @@ export class JobRunsService {
     return runs;
   }
 
-  /** Evidence retention: drops evidence, agreement blocks, scan samples and robot trails older than each site's retention days. */
+  /** Evidence retention: drops evidence, agreement blocks, scan samples, robot trails and hourly traffic older than each site's retention days. */
   async retention(trigger: Trigger, now = new Date()) {
     return this.record('retention', null, trigger, async () => {
       let chunks = 0;
       let blocks = 0;
       let samples = 0;
       let trails = 0;
+      let hours = 0;
       for (const site of await this.db.getRepository(Site).find()) {
         const [cutoff] = completeDays(site.timezone, now, siteSettings(site).retentionDays);
+        const cutoffMs = DateTime.fromISO(cutoff, { zone: site.timezone }).toMillis();
+        hours += (await this.db.getRepository(HourlyTraffic).delete({ siteId: site.id, hourStartMs: LessThan(cutoffMs) })).affected ?? 0;
         const versions = (await this.db.getRepository(MapVersion).find({ where: { siteId: site.id }, select: { id: true } })).map((v) => v.id);
         for (const mapVersionId of versions) {
           chunks += (await this.db.getRepository(EvidenceChunk).delete({ mapVersionId, day: LessThan(cutoff) })).affected ?? 0;
@@ -89,7 +93,7 @@ export class JobRunsService {
           trails += (await this.db.getRepository(PoseTrail).delete({ mapVersionId, day: LessThan(cutoff) })).affected ?? 0;
         }
       }
-      return { chunksDeleted: chunks, blocksDeleted: blocks, samplesDeleted: samples, trailsDeleted: trails };
+      return { chunksDeleted: chunks, blocksDeleted: blocks, samplesDeleted: samples, trailsDeleted: trails, hoursDeleted: hours };
     });
   }
 

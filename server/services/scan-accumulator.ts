@@ -52,6 +52,13 @@ export interface PendingTrail {
   points: TrailPoints;
 }
 
+/** Scans and returns of one UTC hour (the quiet-window planner's traffic). */
+export interface PendingHour {
+  hourStartMs: number;
+  scans: number;
+  returns: number;
+}
+
 /** Batch totals as the receipt shows them. */
 export interface BatchFigures {
   lines: number;
@@ -107,6 +114,7 @@ export class ScanAccumulator {
   private readonly daySet = new Set<string>();
   private readonly samples = new Map<string, PendingSample & { seen: number }>();
   private readonly trails = new Map<string, { robotId: string; day: string; thinner: TrailThinner }>();
+  private readonly hours = new Map<number, PendingHour>();
   // Deterministic reservoir sampling: the same batch keeps the same scans.
   private sampleState = 0x9e3779b9;
   private readonly frame;
@@ -179,18 +187,23 @@ export class ScanAccumulator {
     this.figures.explained += stat.explained - explainedBefore;
     this.figures.outOfMap += f.outOfMap;
     stat.scans++;
+    const hourStartMs = scan.timeMs - (((scan.timeMs % 3_600_000) + 3_600_000) % 3_600_000);
+    let hour = this.hours.get(hourStartMs);
+    if (!hour) this.hours.set(hourStartMs, (hour = { hourStartMs, scans: 0, returns: 0 }));
+    hour.scans++;
+    hour.returns += f.returns;
     stat.beams += f.beams;
     stat.returns += f.returns;
     stat.outOfMap += f.outOfMap;
   }
 
-  /** Packs what is still in memory; returns the per-robot-day figures, agreement blocks, samples and trails. Chunks are in `spill`. */
-  finish(): { stats: PendingStat[]; blocks: PendingBlocks[]; samples: PendingSample[]; trails: PendingTrail[] } {
+  /** Packs what is still in memory; returns the per-robot-day figures, agreement blocks, samples, trails and hourly traffic. Chunks are in `spill`. */
+  finish(): { stats: PendingStat[]; blocks: PendingBlocks[]; samples: PendingSample[]; trails: PendingTrail[]; hours: PendingHour[] } {
     for (const key of [...this.resident.keys()]) this.pack(key);
     this.figures.days = [...this.daySet].sort();
     const samples = [...this.samples.values()].map(({ robotId, scanner, day, lines }) => ({ robotId, scanner, day, lines }));
     const trails = [...this.trails.values()].map(({ robotId, day, thinner }) => ({ robotId, day, points: thinner.points }));
-    return { stats: [...this.stats.values()], blocks: [...this.blocks.values()], samples, trails };
+    return { stats: [...this.stats.values()], blocks: [...this.blocks.values()], samples, trails, hours: [...this.hours.values()] };
   }
 
   // Per robot, not per scanner: every scanner of a robot reports the same base pose.

@@ -18,4 +18,6 @@ export interface RetentionFigures {
   samplesDeleted: number;
   /** Absent in runs recorded before robot trails were kept. */
   trailsDeleted?: number;
+  /** Absent in runs recorded before hourly traffic was kept. */
+  hoursDeleted?: number;
 }

@@ -17,7 +17,7 @@ export function runFigures(run: JobRun): string {
   if (run.status === 'running') return 'running…';
   if (!f) return run.status === 'failed' ? 'no figures (the run failed)' : 'no figures recorded';
   if (run.job === 'retention') {
-    return `dropped ${plural(f.chunksDeleted ?? 0, 'evidence chunk')}, ${plural(f.blocksDeleted ?? 0, 'agreement block')}, ${plural(f.samplesDeleted ?? 0, 'scan sample')}, ${plural(f.trailsDeleted ?? 0, 'robot trail')} past retention`;
+    return `dropped ${plural(f.chunksDeleted ?? 0, 'evidence chunk')}, ${plural(f.blocksDeleted ?? 0, 'agreement block')}, ${plural(f.samplesDeleted ?? 0, 'scan sample')}, ${plural(f.trailsDeleted ?? 0, 'robot trail')}, ${plural(f.hoursDeleted ?? 0, 'hour of traffic', 'hours of traffic')} past retention`;
   }
   const parts: string[] = [];
   if (f.skipped) parts.push(f.skipped);

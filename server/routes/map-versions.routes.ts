@@ -32,9 +32,14 @@ const versionParams = z.object({ siteId: id, versionId: id });
 const tileIndex = z.string().regex(/^\d{1,6}$/, 'must be a whole number from 0').transform(Number);
 const tileParams = versionParams.extend({ z: tileIndex, x: tileIndex, y: tileIndex });
 // The style only makes the URL change with the look (shared/render/palette.ts); any style gets today's tiles.
-const tileQuery = z.strictObject({ style: z.coerce.number().int('must be a whole number').min(1).optional() });
+const tileStyle = z.coerce.number().int('must be a whole number').min(1).optional();
+const tileQuery = z.strictObject({ style: tileStyle });
+// The version compared with the one in the path; without it there is nothing to compare.
+const against = z.uuid({ error: (issue) => (issue.input === undefined ? 'name the version to compare with as ?against=<version id>' : 'must be a valid id') });
+const diffQuery = z.strictObject({ against });
+const diffTileQuery = z.strictObject({ against, style: tileStyle });
 
-/** /api/sites/:siteId/map-versions: upload (mappers), list, preview, grid tiles, activate. */
+/** /api/sites/:siteId/map-versions: upload (mappers), list, preview, grid tiles, differences and their tiles, activate. */
 export function mapVersionsRoutes(services: Services) {
   const router = Router({ mergeParams: true });
   router.use(authenticate);
@@ -85,6 +90,24 @@ export function mapVersionsRoutes(services: Services) {
     const tile = await services.mapVersions.tile(actorOf(res), siteId, versionId, zoom, x, y);
     // A version's tile never changes: one ETag per version, style and tile, cached for a year
     // (the URL's ?style= changes with the style, so a new look is fetched anew).
+    res.setHeader('ETag', tile.etag);
+    res.setHeader('Cache-Control', 'private, max-age=31536000, immutable');
+    if (req.fresh) {
+      res.status(304).end();
+      return;
+    }
+    res.type('png').send(await tile.render());
+  });
+
+  router.get('/:versionId/diff', validate({ params: versionParams, query: diffQuery }), async (_req, res) => {
+    const { siteId, versionId } = res.locals.params;
+    res.json({ diff: await services.mapVersions.diff(actorOf(res), siteId, versionId, res.locals.query.against) });
+  });
+
+  router.get('/:versionId/diff-tiles/:z/:x/:y.png', validate({ params: tileParams, query: diffTileQuery }), async (req, res) => {
+    const { siteId, versionId, z: zoom, x, y } = res.locals.params;
+    const tile = await services.mapVersions.diffTile(actorOf(res), siteId, versionId, res.locals.query.against, zoom, x, y);
+    // Two versions' grids never change, so neither does their difference: cached like grid tiles.
     res.setHeader('ETag', tile.etag);
     res.setHeader('Cache-Control', 'private, max-age=31536000, immutable');
     if (req.fresh) {

@@ -1,12 +1,14 @@
 import { createHash } from 'node:crypto';
 import { PNG } from 'pngjs';
 import { Not, type DataSource } from 'typeorm';
+import { diffAreasM2, diffCounts, diffRows, emptyGridDiff, type GridDiff } from '../../shared/grid/diff.js';
 import { distanceTransform, type DistanceField } from '../../shared/grid/distance-transform.js';
 import { GridFormatError } from '../../shared/grid/errors.js';
 import { RESOLUTION_BOUNDS } from '../../shared/grid/map-kinds.js';
 import { imageToGrid, type GreyImage } from '../../shared/grid/image-to-grid.js';
 import { checkImageName, parseMapMetadata } from '../../shared/grid/map-metadata.js';
 import { parsePgm } from '../../shared/grid/pgm.js';
+import { renderDiffTile } from '../../shared/render/diff-tiles.js';
 import { renderGridImage } from '../../shared/render/grid-image.js';
 import { TILE_STYLE } from '../../shared/render/palette.js';
 import { renderTile, tileCount, tilePyramid } from '../../shared/render/tiles.js';
@@ -32,6 +34,11 @@ export type FormMetadata = Omit<MapMetadata, 'image'>;
 
 const PNG_MAGIC = Buffer.from([0x89, 0x50, 0x4e, 0x47]);
 const GRID_CACHE_SIZE = 6;
+// A map's diff tiles are fetched a screenful at a time, so each pair's difference is kept: 1 byte
+// per base cell (about 1 MB for a 1240 × 840-cell demo map, 16 MB for 4000 × 4000), a few pairs.
+const DIFF_CACHE_SIZE = 4;
+/** Longest stretch of diff work between two yields to the event loop, in milliseconds. */
+const DIFF_SLICE_MS = 50;
 
 function readImage(file: UploadedFile): GreyImage {
   const bytes = file.buffer;
@@ -58,6 +65,8 @@ function readImage(file: UploadedFile): GreyImage {
 export class MapVersionsService {
   private readonly grids = new Map<string, OccupancyGrid>();
   private readonly fields = new Map<string, DistanceField>();
+  /** Differences by "baseId/otherId", least recently used first; a pending one is shared by the tiles that wait for it. */
+  private readonly diffs = new Map<string, Promise<GridDiff>>();
 
   constructor(
     private readonly db: DataSource,
@@ -184,11 +193,89 @@ export class MapVersionsService {
   async tile(actor: Actor, siteId: string, id: string, z: number, x: number, y: number): Promise<{ etag: string; render: () => Promise<Buffer> }> {
     // Visibility first: another organization's version answers 404 before any cache talk.
     const version = await this.find(actor, siteId, id);
-    const { maxZoom } = tilePyramid(version);
-    if (z > maxZoom) throw badRequest(`Zoom ${z} is past this map version's deepest zoom ${maxZoom} (4 pixels per cell).`);
-    const { columns, rows } = tileCount(version, z);
-    if (x >= columns || y >= rows) throw badRequest(`Tile (${x}, ${y}) lies outside this map version at zoom ${z}: columns run 0 to ${columns - 1}, rows 0 to ${rows - 1}.`);
+    checkTile(version, z, x, y);
     return { etag: `"${version.id}-s${TILE_STYLE}-${z}-${x}-${y}"`, render: async () => encodePng(renderTile(await this.grid(version), z, x, y)) };
+  }
+
+  /**
+   * The cell-level difference of version `otherId` against the base `id`, counted on the base's
+   * cells (shared/grid/diff.ts): cells and m² (base resolution²) of structure added and removed,
+   * unknown → known (revealed) and known → unknown (hidden). Both must be floor versions of the site.
+   */
+  async diff(actor: Actor, siteId: string, id: string, otherId: string) {
+    const { base, other } = await this.pair(actor, siteId, id, otherId);
+    const cells = diffCounts(await this.cachedDiff(base, other));
+    return {
+      base: { id: base.id, version: base.version },
+      other: { id: other.id, version: other.version },
+      cells,
+      areasM2: diffAreasM2(cells, base.resolution),
+      resolution: base.resolution,
+      comparedOn: 'base' as const,
+    };
+  }
+
+  /**
+   * One 256 × 256 overlay tile of the difference of `otherId` against `id`, in the base's tile
+   * pyramid (transparent where nothing changed): its ETag, fixed per pair, style and tile because
+   * both grids never change, and a renderer run only when the client's copy is stale.
+   */
+  async diffTile(actor: Actor, siteId: string, id: string, otherId: string, z: number, x: number, y: number): Promise<{ etag: string; render: () => Promise<Buffer> }> {
+    const { base, other } = await this.pair(actor, siteId, id, otherId);
+    checkTile(base, z, x, y);
+    return {
+      etag: `"diff-${base.id}-${other.id}-s${TILE_STYLE}-${z}-${x}-${y}"`,
+      render: async () => encodePng(renderDiffTile(base, await this.cachedDiff(base, other), z, x, y)),
+    };
+  }
+
+  /** The two floor versions of one visible site that a difference compares; 404 for either unknown, 400 for the same one twice or a station model. */
+  private async pair(actor: Actor, siteId: string, id: string, otherId: string) {
+    // Visibility first: another organization's base answers 404 before anything else is said about it.
+    const base = await this.find(actor, siteId, id);
+    if (otherId === id) throw badRequest(`Compare version ${base.version} with another version of the site, not with itself.`);
+    const other = await this.find(actor, siteId, otherId);
+    for (const v of [base, other]) {
+      if (v.kind !== 'floor') throw badRequest(`Version ${v.version} is a station model; differences are shown between floor maps only.`);
+    }
+    return { base, other };
+  }
+
+  /** The difference of `other` against `base`, computed once per pair and kept in a small LRU. */
+  private cachedDiff(base: MapVersion, other: MapVersion): Promise<GridDiff> {
+    const key = `${base.id}/${other.id}`;
+    const cached = this.diffs.get(key);
+    if (cached) {
+      // Re-inserted: a Map iterates in insertion order, so the first key is the least recently used.
+      this.diffs.delete(key);
+      this.diffs.set(key, cached);
+      return cached;
+    }
+    const pending = this.computeDiff(base, other);
+    if (this.diffs.size >= DIFF_CACHE_SIZE) this.diffs.delete(this.diffs.keys().next().value!);
+    this.diffs.set(key, pending);
+    // A failed computation is not kept, so the next request tries again.
+    pending.catch(() => {
+      if (this.diffs.get(key) === pending) this.diffs.delete(key);
+    });
+    return pending;
+  }
+
+  private async computeDiff(base: MapVersion, other: MapVersion): Promise<GridDiff> {
+    const a = await this.grid(base);
+    const b = await this.grid(other);
+    const diff = emptyGridDiff(a);
+    // Bands of rows with a yield between slices, so a large map never holds the event loop for long.
+    const band = Math.max(1, Math.floor(262_144 / a.width));
+    let sliceStart = performance.now();
+    for (let j = 0; j < a.height; j += band) {
+      diffRows(a, b, diff, j, j + band);
+      if (performance.now() - sliceStart > DIFF_SLICE_MS) {
+        await new Promise((resolve) => setImmediate(resolve));
+        sliceStart = performance.now();
+      }
+    }
+    return diff;
   }
 
   /** The site's active floor map version, or null. */
@@ -203,12 +290,23 @@ export class MapVersionsService {
     if (version.status === 'active') throw conflict(`Version ${version.version} is already the active map.`);
     const site = await this.sites.getVisible(actor, siteId);
     await this.db.transaction(async (m) => {
+      const previous = await m.getRepository(MapVersion).findOne({ where: { siteId: site.id, kind: 'floor', status: 'active' }, select: { id: true, version: true } });
       await m.update(MapVersion, { siteId: site.id, kind: 'floor', status: 'active', id: Not(version.id) }, { status: 'archived' });
       await m.update(MapVersion, version.id, { status: 'active', activatedAt: new Date(), activatedById: actor.id });
-      await this.audit.record(actor, { action: 'map.activate', targetType: 'map_version', targetId: version.id, organizationId: site.organizationId, summary: `${actor.name} activated floor map version ${version.version} of ${site.name}.` }, m);
+      // An archived version made active again is a roll back; the audit says so and from which version.
+      const how = version.status === 'archived' ? ' again (roll back' + (previous ? ` from version ${previous.version})` : ')') : previous ? ` in place of version ${previous.version}` : '';
+      await this.audit.record(actor, { action: 'map.activate', targetType: 'map_version', targetId: version.id, organizationId: site.organizationId, summary: `${actor.name} activated floor map version ${version.version} of ${site.name}${how}.` }, m);
     });
     return this.get(actor, siteId, id);
   }
+}
+
+/** Refuses (400) a tile outside a version's pyramid: past its deepest zoom, or past its columns and rows at that zoom. */
+function checkTile(version: MapVersion, z: number, x: number, y: number): void {
+  const { maxZoom } = tilePyramid(version);
+  if (z > maxZoom) throw badRequest(`Zoom ${z} is past this map version's deepest zoom ${maxZoom} (4 pixels per cell).`);
+  const { columns, rows } = tileCount(version, z);
+  if (x >= columns || y >= rows) throw badRequest(`Tile (${x}, ${y}) lies outside this map version at zoom ${z}: columns run 0 to ${columns - 1}, rows 0 to ${rows - 1}.`);
 }
 
 function view(v: MapVersion) {

@@ -80,6 +80,8 @@ const CASES: Case[] = [
   { route: 'GET /api/sites/:siteId/map-versions/:versionId', expect: signedIn(200), prepare: (c) => ({ path: mapPath(c, `/${fixture.mapVersionId}`) }) },
   { route: 'GET /api/sites/:siteId/map-versions/:versionId/preview.png', expect: signedIn(200), prepare: (c) => ({ path: mapPath(c, `/${fixture.mapVersionId}/preview.png`) }) },
   { route: 'GET /api/sites/:siteId/map-versions/:versionId/tiles/:z/:x/:y.png', expect: signedIn(200), prepare: (c) => ({ path: mapPath(c, `/${fixture.mapVersionId}/tiles/0/0/0.png`) }) },
+  { route: 'GET /api/sites/:siteId/map-versions/:versionId/diff', expect: signedIn(200), prepare: async (c) => ({ path: mapPath(c, `/${fixture.mapVersionId}/diff?against=${(await newDraft(c)).id}`) }) },
+  { route: 'GET /api/sites/:siteId/map-versions/:versionId/diff-tiles/:z/:x/:y.png', expect: signedIn(200), prepare: async (c) => ({ path: mapPath(c, `/${fixture.mapVersionId}/diff-tiles/0/0/0.png?against=${(await newDraft(c)).id}`) }) },
   { route: 'POST /api/sites/:siteId/map-versions/:versionId/activate', expect: operatorOnly(200), prepare: async (c) => ({ path: mapPath(c, `/${(await newDraft(c)).id}/activate`) }) },
   { route: 'GET /api/sites/:siteId/scan-batches', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/scan-batches` }) },
   { route: 'POST /api/sites/:siteId/scan-batches', expect: { ...operatorOnly(202) }, attach: (req) => req.attach('log', Buffer.from(scanLine({}) + '\n'), 'drive.jsonl'), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/scan-batches` }) },

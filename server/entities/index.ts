@@ -10,6 +10,7 @@ import { Invitation } from './invitation.entity.js';
 import { JobRun } from './job-run.entity.js';
 import { Organization } from './organization.entity.js';
 import { PoseTrail } from './pose-trail.entity.js';
+import { RemapRequest, RemapRequestZone } from './remap-request.entity.js';
 import { RobotFlag } from './robot-flag.entity.js';
 import { RobotToken } from './robot-token.entity.js';
 import { Robot } from './robot.entity.js';
@@ -18,7 +19,7 @@ import { Site } from './site.entity.js';
 import { User } from './user.entity.js';
 import { Zone } from './zone.entity.js';
 
-export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, HourlyTraffic, Invitation, JobRun, MapVersion, Organization, PoseTrail, Robot, RobotFlag, RobotToken, ScanBatch, ScanSample, Session, Site, User, Zone };
+export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, HourlyTraffic, Invitation, JobRun, MapVersion, Organization, PoseTrail, RemapRequest, RemapRequestZone, Robot, RobotFlag, RobotToken, ScanBatch, ScanSample, Session, Site, User, Zone };
 
 /** Every entity class, passed to the DataSource as classes (not globs). */
-export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic];
+export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic, RemapRequest, RemapRequestZone];

@@ -3,6 +3,7 @@ import { MapsAndEvidence1796172603219 } from './1796172603219-MapsAndEvidence.js
 import { MapHealth1796172987767 } from './1796172987767-MapHealth.js';
 import { PoseTrails1796180812700 } from './1796180812700-PoseTrails.js';
 import { HourlyTraffic1796183000000 } from './1796183000000-HourlyTraffic.js';
+import { RemapRequests1796185100000 } from './1796185100000-RemapRequests.js';
 
 /** Every migration class in order; new ones are appended here. */
-export const migrations: Function[] = [Foundation1796170942239, MapsAndEvidence1796172603219, MapHealth1796172987767, PoseTrails1796180812700, HourlyTraffic1796183000000];
+export const migrations: Function[] = [Foundation1796170942239, MapsAndEvidence1796172603219, MapHealth1796172987767, PoseTrails1796180812700, HourlyTraffic1796183000000, RemapRequests1796185100000];

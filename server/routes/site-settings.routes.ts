@@ -22,6 +22,10 @@ const changeBody = z
     retentionDays: whole(14, 730).optional(),
     scannerFlagZ: between(2, 10).optional(),
     scannerMinReturnsPerDay: whole(100, 1_000_000).optional(),
+    remapDriveSpeedMps: between(0.1, 3).optional(),
+    remapSweepWidthM: between(1, 40).optional(),
+    remapSetupMinutes: whole(0, 480).optional(),
+    remapMarginM: between(0, 10).optional(),
   })
   .refine((b) => Object.keys(b).length > 0, 'name at least one setting to change');
 

@@ -26,6 +26,14 @@ export interface SiteSettings {
   scannerFlagZ: number;
   /** Fewest returns a robot's scanner needs on a day for the day to count in the consistency check (product choice). */
   scannerMinReturnsPerDay: number;
+  /** Speed of the mapping robot while it re-drives an area, m/s (product choice, 0.8: a walking-pace mapping drive). */
+  remapDriveSpeedMps: number;
+  /** Width of floor one mapping lane covers, metres (product choice, 8: lanes one aisle-and-rack apart). */
+  remapSweepWidthM: number;
+  /** Fixed time of a remap run besides driving: bringing the robot, starting and closing the mapping session, minutes (product choice). */
+  remapSetupMinutes: number;
+  /** A remap re-drives its zones grown by this margin, metres, so the new map joins the old one on surveyed ground (product choice). */
+  remapMarginM: number;
 }
 
 /** Product defaults of the site settings. */
@@ -41,6 +49,10 @@ export const SITE_SETTING_DEFAULTS: SiteSettings = {
   retentionDays: 60,
   scannerFlagZ: 3.5,
   scannerMinReturnsPerDay: 1000,
+  remapDriveSpeedMps: 0.8,
+  remapSweepWidthM: 8,
+  remapSetupMinutes: 30,
+  remapMarginM: 2,
 };
 
 /** The site's settings, defaults for what it does not set. */

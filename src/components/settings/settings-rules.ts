@@ -30,6 +30,14 @@ export interface SettingsValues {
   scannerMinReturnsPerDay: number;
   /** Days of evidence kept. */
   retentionDays: number;
+  /** Drive speed of the mapping robot on a remap, m/s. */
+  remapDriveSpeedMps: number;
+  /** Width of floor one mapping lane covers, metres. */
+  remapSweepWidthM: number;
+  /** Fixed setup time of a remap run, minutes. */
+  remapSetupMinutes: number;
+  /** Margin a remap area adds around its zones, metres. */
+  remapMarginM: number;
 }
 
 /** The settings a number field edits. */
@@ -42,7 +50,11 @@ export type NumberField =
   | 'agreementToleranceM'
   | 'scannerFlagZ'
   | 'scannerMinReturnsPerDay'
-  | 'retentionDays';
+  | 'retentionDays'
+  | 'remapDriveSpeedMps'
+  | 'remapSweepWidthM'
+  | 'remapSetupMinutes'
+  | 'remapMarginM';
 
 /** Every setting an admin may change, besides the time zone. */
 export type EditableField = NumberField | 'countNoReturnAsPass';
@@ -76,6 +88,10 @@ export const SETTING_LIMITS: Record<NumberField, NumberLimit> = {
   scannerFlagZ: { min: 2, max: 10, whole: false, fractionDigits: 2 },
   scannerMinReturnsPerDay: { min: 100, max: 1_000_000, whole: true, fractionDigits: 0 },
   retentionDays: { min: 14, max: 730, whole: true, fractionDigits: 0 },
+  remapDriveSpeedMps: { min: 0.1, max: 3, whole: false, fractionDigits: 2 },
+  remapSweepWidthM: { min: 1, max: 40, whole: false, fractionDigits: 1 },
+  remapSetupMinutes: { min: 0, max: 480, whole: true, fractionDigits: 0 },
+  remapMarginM: { min: 0, max: 10, whole: false, fractionDigits: 1 },
 };
 
 /** Days evidence must be kept beyond the detection window (server/services/site-settings.service.ts). */
@@ -93,6 +109,10 @@ export const EDITABLE_FIELDS: readonly EditableField[] = [
   'scannerFlagZ',
   'scannerMinReturnsPerDay',
   'retentionDays',
+  'remapDriveSpeedMps',
+  'remapSweepWidthM',
+  'remapSetupMinutes',
+  'remapMarginM',
 ];
 
 /** What each setting is called on screen. */
@@ -109,6 +129,10 @@ export const SETTING_LABELS: Record<keyof SettingsValues | 'timezone', string> =
   scannerFlagZ: 'Flag at robust z of',
   scannerMinReturnsPerDay: 'Fewest returns for a day to count',
   retentionDays: 'Days of evidence kept',
+  remapDriveSpeedMps: 'Mapping drive speed',
+  remapSweepWidthM: 'Width one lane covers',
+  remapSetupMinutes: 'Setup per remap run',
+  remapMarginM: 'Margin around the zones',
 };
 
 const number = (value: number, digits: number, minDigits = 0) =>
@@ -138,6 +162,13 @@ export function formatSetting<F extends keyof SettingsValues>(field: F, value: S
       return `−${number(v, 2)}`;
     case 'scannerMinReturnsPerDay':
       return `${number(v, 0)} returns`;
+    case 'remapDriveSpeedMps':
+      return `${number(v, 2)} m/s`;
+    case 'remapSweepWidthM':
+    case 'remapMarginM':
+      return `${number(v, 1)} m`;
+    case 'remapSetupMinutes':
+      return `${number(v, 0)} min`;
     default:
       return String(v);
   }
@@ -157,6 +188,10 @@ export function draftFrom(timezone: string, values: SettingsValues): SettingsDra
     scannerFlagZ: values.scannerFlagZ,
     scannerMinReturnsPerDay: values.scannerMinReturnsPerDay,
     retentionDays: values.retentionDays,
+    remapDriveSpeedMps: values.remapDriveSpeedMps,
+    remapSweepWidthM: values.remapSweepWidthM,
+    remapSetupMinutes: values.remapSetupMinutes,
+    remapMarginM: values.remapMarginM,
   };
 }
 
@@ -173,6 +208,10 @@ const units: Partial<Record<NumberField, string>> = {
   agreementToleranceM: ' m',
   scannerMinReturnsPerDay: ' returns',
   retentionDays: ' days',
+  remapDriveSpeedMps: ' m/s',
+  remapSweepWidthM: ' m',
+  remapSetupMinutes: ' min',
+  remapMarginM: ' m',
 };
 
 /** Returns the sentence for a number outside what the server accepts, or null when it is within. */

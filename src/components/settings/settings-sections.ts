@@ -44,6 +44,12 @@ export const SETTINGS_SECTIONS: readonly SettingsSectionSpec[] = [
     intro: 'Evidence is the per-cell count of hits and passes per robot and site-local day; the daily clean-up deletes what is older than this.',
     rows: ['retentionDays'],
   },
+  {
+    id: 'remaps',
+    title: 'Remap planning',
+    intro: 'A remap request re-drives its zones and a margin around them. Its duration is estimated as lanes one lane width apart over that area at the drive speed, plus the driving between its parts and a fixed setup.',
+    rows: ['remapDriveSpeedMps', 'remapSweepWidthM', 'remapSetupMinutes', 'remapMarginM'],
+  },
 ];
 
 /** What each setting changes, in a sentence or two. */
@@ -67,6 +73,12 @@ export const SETTING_HELP: Record<SettingsRowKey, string> = {
     'A robot gets “scanner check advised” when, over the last 7 days, its agreement sits this far below the rest of the fleet’s (median robust z-score at or below this). Further from zero means fewer, surer flags.',
   scannerMinReturnsPerDay:
     'A day on which a robot’s scanner sent fewer returns than this, in places the rest of the fleet also saw, is left out of its check, so a robot that barely drove is not judged on a handful of returns.',
+  remapDriveSpeedMps: 'The mapping robot’s average speed while it re-drives an area, turns included. Changes the estimate of requests created from now on.',
+  remapSweepWidthM:
+    'How wide a strip of floor one pass of the mapping robot records well enough for the map. Wider lanes mean fewer passes and a shorter estimate.',
+  remapSetupMinutes: 'Time a remap run takes besides driving: bringing the robot, starting and closing the mapping session. Added to every estimate.',
+  remapMarginM:
+    'The area to re-drive is the zones grown by this margin, so that the new map joins the old one on ground surveyed twice. Applies to requests created from now on.',
   retentionDays:
     'Evidence older than this is deleted. It must cover the detection window plus 14 days, so that the nightly comparison and the health score’s two weeks have their days.',
 };

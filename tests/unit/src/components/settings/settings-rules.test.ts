@@ -24,6 +24,10 @@ const defaults: SettingsValues = {
   scannerFlagZ: 3.5,
   scannerMinReturnsPerDay: 1000,
   retentionDays: 60,
+  remapDriveSpeedMps: 0.8,
+  remapSweepWidthM: 8,
+  remapSetupMinutes: 30,
+  remapMarginM: 2,
 };
 const zone = 'Europe/London';
 

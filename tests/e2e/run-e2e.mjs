@@ -101,14 +101,17 @@ async function waitForHealth(baseUrl, server) {
   throw new Error(`The server did not answer GET /api/health within 120 s:\n${server.output.join('')}`);
 }
 
+// `node tests/e2e/run-e2e.mjs map-diff` runs only the files whose name contains "map-diff"; no argument runs all.
+const nameFilter = process.argv[2] ?? '';
+
 async function loadTests() {
-  const files = readdirSync(here).filter((f) => f.endsWith('.e2e.mjs')).sort();
+  const files = readdirSync(here).filter((f) => f.endsWith('.e2e.mjs') && f.includes(nameFilter)).sort();
   const tests = [];
   for (const file of files) {
     const module = await import(pathToFileURL(path.join(here, file)).href);
     for (const test of module.tests ?? []) tests.push({ ...test, file });
   }
-  if (tests.length === 0) throw new Error('No browser tests found (tests/e2e/*.e2e.mjs export `tests`).');
+  if (tests.length === 0) throw new Error(`No browser tests found (tests/e2e/*${nameFilter}*.e2e.mjs export \`tests\`).`);
   return tests;
 }
 

@@ -5,6 +5,9 @@
  * the t that attains it. Being rank-based it needs no in-control reference level and a few wild
  * values cannot make a step, which suits docking offsets with an occasional bad docking.
  * Computed from mid-ranks, U_t = 2 Σ_{i≤t} r_i − t(T + 1), in O(T log T) instead of O(T²).
+ * The split where |U_t| peaks is pulled toward the middle of the series (U_t's spread grows with
+ * t(T − t)), so for locating a change near either end the result also names the split where
+ * |U_t| / √(t(T − t)) peaks, the standardized Mann–Whitney form of the same statistic.
  */
 
 /** Result of Pettitt's test on a series. */
@@ -15,6 +18,8 @@ export interface PettittResult {
   splitAfter: number;
   /** U at the chosen split: positive when the values before the split are larger than after. */
   u: number;
+  /** Number of values before the split where |U_t| / √(t(T − t)) peaks: the better place of a change near an end. */
+  standardizedSplitAfter: number;
   /** Approximate two-sided p-value 2 exp(−6K² / (T³ + T²)), capped at 1 (Pettitt 1979; the approximation is good for p ≤ 0.5). */
   pValue: number;
 }
@@ -50,13 +55,16 @@ export function pettittTest(values: ArrayLike<number>, minSegment = 1): PettittR
   const ranks = midRanks(values);
   let rankSum = 0;
   let best = { statistic: -1, splitAfter: m, u: 0 };
+  let standardized = { score: -1, splitAfter: m };
   for (let t = 1; t < n; t++) {
     rankSum += ranks[t - 1];
     if (t < m || t > n - m) continue;
     const u = 2 * rankSum - t * (n + 1);
     if (Math.abs(u) > best.statistic) best = { statistic: Math.abs(u), splitAfter: t, u };
+    const score = Math.abs(u) / Math.sqrt(t * (n - t));
+    if (score > standardized.score) standardized = { score, splitAfter: t };
   }
   const k = best.statistic;
   const pValue = Math.min(1, 2 * Math.exp((-6 * k * k) / (n * n * n + n * n)));
-  return { statistic: k, splitAfter: best.splitAfter, u: best.u, pValue };
+  return { statistic: k, splitAfter: best.splitAfter, u: best.u, pValue, standardizedSplitAfter: standardized.splitAfter };
 }

@@ -46,6 +46,25 @@ describe('Pettitt change-point test', () => {
     expect(result.pValue).toBeLessThan(1e-9);
   });
 
+  it('when the change lies near the end, then the standardized split finds it where |U_t| alone points elsewhere', () => {
+    // Arrange: 300 noise values, then 12 values raised by 3σ; a fixed seed where the plain peak
+    // of |U_t| falls well before the change (|U_t|'s spread grows toward the middle).
+    const rng = createRng(102);
+    const x = Array.from({ length: 312 }, (_, k) => (k >= 300 ? 3 : 0) + rng.normal());
+    // Act
+    const result = pettittTest(x, 5);
+    // Assert: |U_t| / √(t(T − t)) peaks at the change (standardized Mann–Whitney form; Pettitt 1979).
+    expect(Math.abs(result.standardizedSplitAfter - 300)).toBeLessThanOrEqual(3);
+    expect(result.splitAfter).toBeLessThan(200);
+    let bestScore = -1;
+    let bestT = 0;
+    for (let t = 5; t <= 307; t++) {
+      const score = Math.abs(uByDefinition(x, t)) / Math.sqrt(t * (312 - t));
+      if (score > bestScore) [bestScore, bestT] = [score, t];
+    }
+    expect(result.standardizedSplitAfter).toBe(bestT);
+  });
+
   it('when series have no change, then the approximate p-value is conservative: the true tail is below it but not far', () => {
     // Arrange: 20 000 series of 40 i.i.d. normals, a fixed seed.
     const rng = createRng(11);

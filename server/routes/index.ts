@@ -11,6 +11,7 @@ import { jobRunsRoutes } from './job-runs.routes.js';
 import { mapVersionsRoutes } from './map-versions.routes.js';
 import { organizationsRoutes } from './organizations.routes.js';
 import { pathsRoutes } from './paths.routes.js';
+import { remapCalendarRoutes, remapsRoutes } from './remaps.routes.js';
 import { robotsRoutes } from './robots.routes.js';
 import { scanBatchesRoutes } from './scan-batches.routes.js';
 import { siteSettingsRoutes } from './site-settings.routes.js';
@@ -39,6 +40,8 @@ export function routeTable(services: Services, config: Config, db: DataSource, v
     { path: '/sites/:siteId/map-versions', router: mapVersionsRoutes(services) },
     { path: '/sites/:siteId/scan-batches', router: scanBatchesRoutes(services, config) },
     { path: '/sites/:siteId/zones', router: zonesRoutes(services) },
+    { path: '/sites/:siteId/remaps', router: remapsRoutes(services) },
+    { path: '/remaps', router: remapCalendarRoutes(services) },
     { path: '/ingest', router: ingestRoutes(services) },
     { path: '/job-runs', router: jobRunsRoutes(services) },
     { path: '/audit-events', router: auditRoutes(services) },

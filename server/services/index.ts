@@ -12,6 +12,7 @@ import { JobRunsService } from './job-runs.service.js';
 import { MapVersionsService } from './map-versions.service.js';
 import { OrganizationsService } from './organizations.service.js';
 import { PathsService } from './paths.service.js';
+import { RemapsService } from './remaps.service.js';
 import { RobotsService } from './robots.service.js';
 import { ScannerCheckService } from './scanner-check.service.js';
 import { SiteSettingsService } from './site-settings.service.js';
@@ -28,15 +29,18 @@ export function createServices(db: DataSource, config: Config, sessions: Session
   const robots = new RobotsService(db, sites, audit);
   const scannerCheck = new ScannerCheckService(db, sites, robots, mapVersions, audit);
   const detection = new DetectionService(db, sites, mapVersions, health, scannerCheck, audit, log);
+  const traffic = new TrafficService(db);
+  const remaps = new RemapsService(db, sites, mapVersions, health, traffic, audit, log);
   return {
     health,
     scannerCheck,
     detection,
-    jobRuns: new JobRunsService(db, detection, log),
+    jobRuns: new JobRunsService(db, detection, log, remaps),
     demoSeed: new DemoSeedProgress(),
     mapVersions,
     paths: new PathsService(db, sites, mapVersions),
-    traffic: new TrafficService(db),
+    traffic,
+    remaps,
     ingest: new IngestService(db, sites, mapVersions, log),
     audit,
     sites,

@@ -6,6 +6,7 @@ import type { JobName } from '../entities/job-run.entity.js';
 import { notFound } from '../http-error.js';
 import type { DetectionService } from './detection.service.js';
 import { newId } from './ids.js';
+import type { RemapsService } from './remaps.service.js';
 import { completeDays } from './site-days.js';
 import { siteSettings } from './site-settings.js';
 
@@ -39,6 +40,7 @@ export class JobRunsService {
     private readonly db: DataSource,
     private readonly detection: DetectionService,
     private readonly log: Logger,
+    private readonly remaps: RemapsService,
   ) {}
 
   private async record(job: JobName, site: Site | null, trigger: Trigger, work: () => Promise<Record<string, unknown>>) {
@@ -62,12 +64,15 @@ export class JobRunsService {
     return this.db.getRepository(JobRun).findOneByOrFail({ id: run.id });
   }
 
-  /** Nightly detection of one site (or every site), each recorded as its own run. */
+  /** Nightly detection of one site (or every site), each recorded as its own run; once zones are tracked, the site's remaps with a new active map are verified. */
   async detect(trigger: Trigger, siteId?: string, now = new Date()) {
     const sites = siteId ? [await this.site(siteId)] : await this.db.getRepository(Site).find({ order: { name: 'ASC' } });
     const runs = [];
     for (const site of sites) {
-      const run = await this.record('detection', site, trigger, async () => ({ ...(await this.detection.runForSite(site, now)) }));
+      const run = await this.record('detection', site, trigger, async () => {
+        const figures = await this.detection.runForSite(site, now);
+        return { ...figures, remaps: await this.remaps.verify(site, now) };
+      });
       if (run) runs.push(run);
     }
     return runs;

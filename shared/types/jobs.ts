@@ -9,6 +9,8 @@ export interface DetectionFigures {
   zonesCleared: number;
   flagged: string[];
   skipped?: string;
+  /** Remap requests whose new map was checked after the zones were tracked; absent in runs recorded before remaps existed. */
+  remaps?: { checked: number; verified: number; notFixed: number };
 }
 
 /** What a retention run reports: stored items dropped because they were older than the sites' retention. */

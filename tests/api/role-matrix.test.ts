@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Robot, RobotFlag } from '../../server/entities/index.js';
 import { listRoutes } from '../../server/routes/index.js';
 import { insertZone, roomMap, scanLine } from './helpers/fixtures.js';
+import { actorByEmail, MAPPER_EMAIL, openZone, remapAt } from './helpers/remap-fixtures.js';
 import { createTestApp, demoAccount, demoIds, signIn, type TestApp } from './helpers/test-app.js';
 
 // Every API route, called by every role and by an anonymous client, must answer the status
@@ -34,6 +35,7 @@ const operatorOnly = (s: number): Record<Who, number> => ({ anon: 401, admin: s,
 let fixture: { mapVersionId: string; batchId: string; zoneId: string };
 let zoneNumber = 100;
 const zonePath = (c: Ctx, id: string, rest = '') => `/api/sites/${c.ids.ambergateSite}/zones/${id}${rest}`;
+const remapPath = (c: Ctx, rest = '') => `/api/sites/${c.ids.ambergateSite}/remaps${rest}`;
 async function newFlag(c: Ctx) {
   const flag = c.t.dataSource.getRepository(RobotFlag).create({ id: crypto.randomUUID(), robotId: c.ids.ambergateRobot, scanner: 'front', status: 'active', raisedAt: new Date(), figures: { days: [], meanAgreement: 0.8, fleetMedian: 0.97, medianZ: -6 }, mount: null });
   await c.t.dataSource.getRepository(RobotFlag).save(flag);
@@ -110,6 +112,27 @@ const CASES: Case[] = [
     body: () => ({ note: 'window cleaned' }),
     prepare: async (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/robots/${c.ids.ambergateRobot}/flags/${await newFlag(c)}/clear` }),
   },
+  { route: 'GET /api/sites/:siteId/remaps', expect: signedIn(200), prepare: (c) => ({ path: remapPath(c) }) },
+  { route: 'POST /api/sites/:siteId/remaps', expect: { anon: 401, admin: 201, mapper: 201, site_manager: 201, viewer: 403 }, prepare: async (c) => ({ path: remapPath(c), body: { zoneIds: [await openZone(c.t, c.ids.ambergateSite)] } }) },
+  { route: 'GET /api/sites/:siteId/remaps/:remapId', expect: signedIn(200), prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'approved')}`) }) },
+  { route: 'GET /api/sites/:siteId/remaps/:remapId/quiet-windows', expect: signedIn(200), prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'approved')}/quiet-windows`) }) },
+  { route: 'POST /api/sites/:siteId/remaps/:remapId/approve', expect: { anon: 401, admin: 200, mapper: 403, site_manager: 200, viewer: 403 }, prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'proposed')}/approve`), body: {} }) },
+  {
+    route: 'POST /api/sites/:siteId/remaps/:remapId/schedule',
+    expect: operatorOnly(200),
+    prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'approved')}/schedule`), body: { start: new Date(Date.now() + 86_400_000).toISOString(), assigneeId: (await actorByEmail(c.t, MAPPER_EMAIL)).id } }),
+  },
+  { route: 'POST /api/sites/:siteId/remaps/:remapId/start', expect: operatorOnly(200), prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'scheduled')}/start`), body: {} }) },
+  {
+    route: 'POST /api/sites/:siteId/remaps/:remapId/attach-map',
+    expect: operatorOnly(200),
+    prepare: async (c) => {
+      const remapId = await remapAt(c.t, c.ids.ambergateSite, 'in_progress');
+      return { path: remapPath(c, `/${remapId}/attach-map`), body: { mapVersionId: (await newDraft(c)).id } };
+    },
+  },
+  { route: 'POST /api/sites/:siteId/remaps/:remapId/cancel', expect: managers(200), prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'approved')}/cancel`), body: { reason: 'matrix' } }) },
+  { route: 'GET /api/remaps', expect: signedIn(200), prepare: () => ({ path: `/api/remaps?from=${new Date(Date.now() - 86_400_000).toISOString()}&to=${new Date(Date.now() + 7 * 86_400_000).toISOString()}` }) },
   { route: 'GET /api/job-runs', expect: adminOnly(200) },
   { route: 'POST /api/job-runs', expect: adminOnly(202), body: () => ({ job: 'retention' }) },
   // Robots post with bearer tokens; a person's session is not enough.
@@ -158,7 +181,7 @@ describe('role matrix', () => {
         const cookie = prepared.cookie !== undefined ? prepared.cookie : cookies.get(who);
         if (cookie) req = req.set('Cookie', cookie);
         if (c.attach) req = c.attach(req);
-        const body = c.body?.(ctx);
+        const body = prepared.body ?? c.body?.(ctx);
         const res = body === undefined ? await req : await req.send(body as object);
         got[who] = res.status;
       }

@@ -62,6 +62,20 @@ export const routes: RouteRecordRaw[] = [
         meta: { title: 'Robots' },
       },
       {
+        path: 'remaps',
+        name: 'site-remaps',
+        component: () => import('@/views/SiteRemapsView.vue'),
+        props: true,
+        meta: { title: 'Remaps' },
+      },
+      {
+        path: 'remaps/:remapId',
+        name: 'site-remap',
+        component: () => import('@/views/SiteRemapView.vue'),
+        props: true,
+        meta: { title: 'Remap request' },
+      },
+      {
         path: 'maps',
         name: 'site-maps',
         component: () => import('@/views/SiteMapVersionsView.vue'),
@@ -83,6 +97,12 @@ export const routes: RouteRecordRaw[] = [
         meta: { title: 'Settings' },
       },
     ],
+  },
+  {
+    path: '/remaps',
+    name: 'remaps-calendar',
+    component: () => import('@/views/RemapsCalendarView.vue'),
+    meta: { title: 'Remaps calendar' },
   },
   {
     path: '/admin',

@@ -18,8 +18,12 @@ import { Session } from './session.entity.js';
 import { Site } from './site.entity.js';
 import { User } from './user.entity.js';
 import { Zone } from './zone.entity.js';
+import { DockingBatch } from './docking-batch.entity.js';
+import { DockingResult } from './docking-result.entity.js';
+import { DockingStation } from './docking-station.entity.js';
 
 export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, HourlyTraffic, Invitation, JobRun, MapVersion, Organization, PoseTrail, RemapRequest, RemapRequestZone, Robot, RobotFlag, RobotToken, ScanBatch, ScanSample, Session, Site, User, Zone };
+export { DockingBatch, DockingResult, DockingStation };
 
 /** Every entity class, passed to the DataSource as classes (not globs). */
-export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic, RemapRequest, RemapRequestZone];
+export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic, DockingStation, DockingBatch, DockingResult, RemapRequest, RemapRequestZone];

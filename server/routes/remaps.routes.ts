@@ -45,6 +45,10 @@ export function remapsRoutes(services: Services) {
     res.status(201).json({ remap: await remaps.create(actorOf(res), res.locals.params.siteId, res.locals.body) });
   });
 
+  router.get('/assignees', requireRole(...REMAP_ROLES.schedule), validate({ params: siteParams }), async (_req, res) => {
+    res.json({ assignees: await remaps.assignees(actorOf(res), res.locals.params.siteId) });
+  });
+
   router.get('/:remapId', validate({ params: remapParams }), async (_req, res) => {
     const { siteId, remapId } = res.locals.params;
     res.json({ remap: await remaps.get(actorOf(res), siteId, remapId) });

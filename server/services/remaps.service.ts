@@ -154,6 +154,14 @@ export class RemapsService {
     return { remaps: await this.views(rows), total, page: q.page, pageSize: q.pageSize };
   }
 
+  /** The people a request of a visible site may be assigned to: active mappers and admins, by name. */
+  async assignees(actor: Actor, siteId: string) {
+    this.allow(actor, 'schedule', 'schedule');
+    await this.sites.getVisible(actor, siteId);
+    const users = await this.db.getRepository(User).find({ where: { role: In(['mapper', 'admin']), status: 'active' }, order: { name: 'ASC' } });
+    return users.map((u) => ({ id: u.id, name: u.name, role: u.role as 'mapper' | 'admin' }));
+  }
+
   /** One request with its history of moves. */
   async get(actor: Actor, siteId: string, remapId: string) {
     const { remap } = await this.find(actor, siteId, remapId);

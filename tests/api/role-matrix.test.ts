@@ -114,6 +114,7 @@ const CASES: Case[] = [
   },
   { route: 'GET /api/sites/:siteId/remaps', expect: signedIn(200), prepare: (c) => ({ path: remapPath(c) }) },
   { route: 'POST /api/sites/:siteId/remaps', expect: { anon: 401, admin: 201, mapper: 201, site_manager: 201, viewer: 403 }, prepare: async (c) => ({ path: remapPath(c), body: { zoneIds: [await openZone(c.t, c.ids.ambergateSite)] } }) },
+  { route: 'GET /api/sites/:siteId/remaps/assignees', expect: operatorOnly(200), prepare: (c) => ({ path: remapPath(c, '/assignees') }) },
   { route: 'GET /api/sites/:siteId/remaps/:remapId', expect: signedIn(200), prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'approved')}`) }) },
   { route: 'GET /api/sites/:siteId/remaps/:remapId/quiet-windows', expect: signedIn(200), prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'approved')}/quiet-windows`) }) },
   { route: 'POST /api/sites/:siteId/remaps/:remapId/approve', expect: { anon: 401, admin: 200, mapper: 403, site_manager: 200, viewer: 403 }, prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'proposed')}/approve`), body: {} }) },

@@ -26,6 +26,8 @@ const changeBody = z
     remapSweepWidthM: between(1, 40).optional(),
     remapSetupMinutes: whole(0, 480).optional(),
     remapMarginM: between(0, 10).optional(),
+    dockingToleranceMm: between(1, 100).optional(),
+    dockingToleranceDeg: between(0.1, 10).optional(),
   })
   .refine((b) => Object.keys(b).length > 0, 'name at least one setting to change');
 

@@ -34,6 +34,10 @@ export interface SiteSettings {
   remapSetupMinutes: number;
   /** A remap re-drives its zones grown by this margin, metres, so the new map joins the old one on surveyed ground (product choice). */
   remapMarginM: number;
+  /** A docking is accurate within this radial distance of the station's nominal docking position, millimetres (default 10: charging contacts and quoted docking repeatability of mobile robots are commonly around ±10 mm; common practice, from memory). */
+  dockingToleranceMm: number;
+  /** A docking is accurate within this heading difference, degrees (default 1°: common practice, from memory). */
+  dockingToleranceDeg: number;
 }
 
 /** Product defaults of the site settings. */
@@ -53,6 +57,8 @@ export const SITE_SETTING_DEFAULTS: SiteSettings = {
   remapSweepWidthM: 8,
   remapSetupMinutes: 30,
   remapMarginM: 2,
+  dockingToleranceMm: 10,
+  dockingToleranceDeg: 1,
 };
 
 /** The site's settings, defaults for what it does not set. */

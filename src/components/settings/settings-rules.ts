@@ -38,6 +38,10 @@ export interface SettingsValues {
   remapSetupMinutes: number;
   /** Margin a remap area adds around its zones, metres. */
   remapMarginM: number;
+  /** Radial position tolerance of a docking, millimetres (stations may override it). */
+  dockingToleranceMm: number;
+  /** Heading tolerance of a docking, degrees (stations may override it). */
+  dockingToleranceDeg: number;
 }
 
 /** The settings a number field edits. */
@@ -54,7 +58,9 @@ export type NumberField =
   | 'remapDriveSpeedMps'
   | 'remapSweepWidthM'
   | 'remapSetupMinutes'
-  | 'remapMarginM';
+  | 'remapMarginM'
+  | 'dockingToleranceMm'
+  | 'dockingToleranceDeg';
 
 /** Every setting an admin may change, besides the time zone. */
 export type EditableField = NumberField | 'countNoReturnAsPass';
@@ -92,6 +98,8 @@ export const SETTING_LIMITS: Record<NumberField, NumberLimit> = {
   remapSweepWidthM: { min: 1, max: 40, whole: false, fractionDigits: 1 },
   remapSetupMinutes: { min: 0, max: 480, whole: true, fractionDigits: 0 },
   remapMarginM: { min: 0, max: 10, whole: false, fractionDigits: 1 },
+  dockingToleranceMm: { min: 1, max: 100, whole: false, fractionDigits: 1 },
+  dockingToleranceDeg: { min: 0.1, max: 10, whole: false, fractionDigits: 1 },
 };
 
 /** Days evidence must be kept beyond the detection window (server/services/site-settings.service.ts). */
@@ -113,6 +121,8 @@ export const EDITABLE_FIELDS: readonly EditableField[] = [
   'remapSweepWidthM',
   'remapSetupMinutes',
   'remapMarginM',
+  'dockingToleranceMm',
+  'dockingToleranceDeg',
 ];
 
 /** What each setting is called on screen. */
@@ -133,6 +143,8 @@ export const SETTING_LABELS: Record<keyof SettingsValues | 'timezone', string> =
   remapSweepWidthM: 'Width one lane covers',
   remapSetupMinutes: 'Setup per remap run',
   remapMarginM: 'Margin around the zones',
+  dockingToleranceMm: 'Docking position tolerance',
+  dockingToleranceDeg: 'Docking heading tolerance',
 };
 
 const number = (value: number, digits: number, minDigits = 0) =>
@@ -169,6 +181,10 @@ export function formatSetting<F extends keyof SettingsValues>(field: F, value: S
       return `${number(v, 1)} m`;
     case 'remapSetupMinutes':
       return `${number(v, 0)} min`;
+    case 'dockingToleranceMm':
+      return `${number(v, 1)} mm`;
+    case 'dockingToleranceDeg':
+      return `${number(v, 1)}°`;
     default:
       return String(v);
   }
@@ -192,6 +208,8 @@ export function draftFrom(timezone: string, values: SettingsValues): SettingsDra
     remapSweepWidthM: values.remapSweepWidthM,
     remapSetupMinutes: values.remapSetupMinutes,
     remapMarginM: values.remapMarginM,
+    dockingToleranceMm: values.dockingToleranceMm,
+    dockingToleranceDeg: values.dockingToleranceDeg,
   };
 }
 
@@ -212,6 +230,8 @@ const units: Partial<Record<NumberField, string>> = {
   remapSweepWidthM: ' m',
   remapSetupMinutes: ' min',
   remapMarginM: ' m',
+  dockingToleranceMm: ' mm',
+  dockingToleranceDeg: '°',
 };
 
 /** Returns the sentence for a number outside what the server accepts, or null when it is within. */

@@ -50,6 +50,12 @@ export const SETTINGS_SECTIONS: readonly SettingsSectionSpec[] = [
     intro: 'A remap request re-drives its zones and a margin around them. Its duration is estimated as lanes one lane width apart over that area at the drive speed, plus the driving between its parts and a fixed setup.',
     rows: ['remapDriveSpeedMps', 'remapSweepWidthM', 'remapSetupMinutes', 'remapMarginM'],
   },
+  {
+    id: 'docking',
+    title: 'Docking accuracy',
+    intro: 'Robots report where they came to rest at each docking station. A docking is within tolerance when both its position and its heading are; a station may set its own tolerance on its page.',
+    rows: ['dockingToleranceMm', 'dockingToleranceDeg'],
+  },
 ];
 
 /** What each setting changes, in a sentence or two. */
@@ -79,6 +85,10 @@ export const SETTING_HELP: Record<SettingsRowKey, string> = {
   remapSetupMinutes: 'Time a remap run takes besides driving: bringing the robot, starting and closing the mapping session. Added to every estimate.',
   remapMarginM:
     'The area to re-drive is the zones grown by this margin, so that the new map joins the old one on ground surveyed twice. Applies to requests created from now on.',
+  dockingToleranceMm:
+    'How far from its nominal docking position a robot may come to rest, in any direction, and still count as docked accurately. The default of 10 mm follows what charging contacts commonly allow (common practice, from memory); set what your stations’ maker states. Applies to every figure at once, past dockings included.',
+  dockingToleranceDeg:
+    'How far the robot’s heading may differ from the nominal docking heading. The default of 1° is common practice (from memory). Applies to every figure at once, past dockings included.',
   retentionDays:
     'Evidence older than this is deleted. It must cover the detection window plus 14 days, so that the nightly comparison and the health score’s two weeks have their days.',
 };

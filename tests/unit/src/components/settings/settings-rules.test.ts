@@ -28,6 +28,9 @@ const defaults: SettingsValues = {
   remapSweepWidthM: 8,
   remapSetupMinutes: 30,
   remapMarginM: 2,
+  // Docking tolerances: common practice for charging contacts, from memory (site-settings.ts).
+  dockingToleranceMm: 10,
+  dockingToleranceDeg: 1,
 };
 const zone = 'Europe/London';
 

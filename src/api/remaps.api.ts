@@ -1,4 +1,3 @@
-import { appConfig } from '@/config';
 import { apiRequest } from './client';
 import type { ZoneKind, ZonePersistence, ZoneStatus } from './zones.api';
 
@@ -30,13 +29,18 @@ export interface RemapArea {
 }
 
 /**
- * The coverage estimate of a remap: area in m², sweep width in metres, drive speed in m/s, drive
- * length in metres, and minutes of driving, of setup overhead and in total.
+ * The coverage estimate of a remap: area in m², sweep width in metres, drive speed in m/s, lane,
+ * transit and drive lengths in metres, and minutes of driving, of setup overhead and in total.
  */
 export interface RemapEstimate {
   areaM2: number;
   sweepWidthM: number;
   driveSpeedMps: number;
+  /** Lanes over the area: area ÷ sweep width, metres. */
+  laneLengthM: number;
+  /** Driving between separate parts of the area (nearest-next through their centres), metres. */
+  transitM: number;
+  /** laneLengthM + transitM, metres. */
   driveLengthM: number;
   driveMinutes: number;
   overheadMinutes: number;
@@ -52,7 +56,10 @@ export interface RemapWindow {
   localEnd: string;
 }
 
-/** Agreement (share 0–1, null without returns) and changed area (m²) of one map version over the request's area. */
+/**
+ * Agreement (site-wide explained returns ÷ returns, 0–1, null without returns) and changed area (m²:
+ * before, the request's zones; after, zones of the new version inside the request's area).
+ */
 export interface VerificationFigures {
   agreement: number | null;
   changedAreaM2: number;
@@ -68,6 +75,14 @@ export interface RemapVerification {
   checkedAt: string | null;
 }
 
+/** A map version a request names: the one its zones were found on, or the remap run's. */
+export interface RemapMapRef {
+  id: string;
+  version: number;
+  status: 'draft' | 'active' | 'archived';
+  activatedAt: string | null;
+}
+
 /** One recorded step of a request: creation, approval, scheduling, verification… */
 export interface RemapHistoryEntry {
   at: string;
@@ -80,7 +95,10 @@ export interface RemapHistoryEntry {
 export interface RemapRequest {
   id: string;
   siteId: string;
+  siteName: string | null;
   number: number;
+  /** 'R-<number>'. */
+  label: string;
   title: string;
   status: RemapStatus;
   priority: { score: number; label: RemapPriorityLabel };
@@ -89,11 +107,13 @@ export interface RemapRequest {
   estimate: RemapEstimate;
   window: RemapWindow | null;
   assignee: PersonRef | null;
-  requestedBy: PersonRef;
+  /** Null only when the person was deleted. */
+  requestedBy: PersonRef | null;
   approvedBy: PersonRef | null;
   approvedAt: string | null;
-  mapVersionBefore: { id: string; version: number };
-  mapVersionAfter: { id: string; version: number } | null;
+  mapVersionBefore: RemapMapRef;
+  mapVersionAfter: RemapMapRef | null;
+  /** Null until the first nightly detection after the attached version became active. */
   verification: RemapVerification | null;
   note: string;
   cancelReason: string | null;
@@ -111,11 +131,11 @@ export interface RemapPage {
   pageSize: number;
 }
 
-/** Mean returns in one site-local hour of the week (dow 1 = Monday … 7 = Sunday, ISO; hour 0–23). */
+/** Mean returns in one site-local hour of the week (dow 1 = Monday … 7 = Sunday, ISO; hour 0–23); null without history for that hour. */
 export interface HourOfWeekTraffic {
   dow: number;
   hour: number;
-  meanReturns: number;
+  meanReturns: number | null;
 }
 
 /** A proposed quiet window: UTC instants, site-local 'YYYY-MM-DD HH:mm', the returns expected in it and its rank (1 = quietest). */
@@ -128,10 +148,16 @@ export interface QuietWindow {
   rank: number;
 }
 
-/** The site's traffic by hour of week over the last `weeks` weeks and the quietest windows of `durationMinutes` in the coming days. */
+/**
+ * The site's traffic by hour of week over the last `weeks` weeks (≤ 4, one decimal; history from
+ * `historyFrom`) and the quietest windows of `durationMinutes` in the coming days; no windows
+ * without traffic history.
+ */
 export interface QuietWindows {
   durationMinutes: number;
+  timezone: string;
   weeks: number;
+  historyFrom: string | null;
   hourOfWeek: HourOfWeekTraffic[];
   windows: QuietWindow[];
 }
@@ -151,7 +177,7 @@ export async function listRemaps(siteId: string, status: RemapStatus | undefined
   return apiRequest<RemapPage>(remapsPath(siteId), { query: { status, page, pageSize } });
 }
 
-/** Creates a remap request from zones of the site's active map (1–50); the zones become "remap planned". */
+/** Creates a remap request from open or acknowledged zones of the site's active map (1–50; title ≤ 200, note ≤ 2000 characters); the zones become "remap planned". */
 export async function createRemap(siteId: string, input: { zoneIds: string[]; title?: string; note?: string }): Promise<RemapRequest> {
   return (await apiRequest<{ remap: RemapRequest }>(remapsPath(siteId), { method: 'POST', body: input })).remap;
 }
@@ -195,17 +221,12 @@ export function attachRemapMap(siteId: string, remapId: string, mapVersionId: st
   return act(siteId, remapId, 'attach-map', { mapVersionId });
 }
 
-/** Cancels a request with a reason (1–500 characters); its zones return to their earlier status. */
+/** Cancels a request (anything but verified or cancelled) with a reason (1–500 characters); zones still planned return to their earlier status. */
 export function cancelRemap(siteId: string, remapId: string, reason: string): Promise<RemapRequest> {
   return act(siteId, remapId, 'cancel', { reason });
 }
 
-/** Returns the URL of a scheduled request's iCalendar file (RFC 5545), for a download link. */
-export function remapCalendarUrl(siteId: string, remapId: string): string {
-  return `${appConfig.apiBaseUrl}${remapPath(siteId, remapId)}/calendar.ics`;
-}
-
-/** Returns the requests with a window overlapping [from, to) across every site the user may see (the calendar). */
+/** Returns the scheduled, in-progress and later requests with a window overlapping [from, to) (at most 93 days) across every site the user may see. */
 export async function listRemapsInRange(from: string, to: string): Promise<RemapRequest[]> {
   return (await apiRequest<{ remaps: RemapRequest[] }>('/remaps', { query: { from, to } })).remaps;
 }

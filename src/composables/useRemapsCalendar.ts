@@ -1,16 +1,13 @@
 import { computed } from 'vue';
 import { listRemapsInRange, type RemapRequest } from '@/api/remaps.api';
-import { listSites } from '@/api/sites.api';
-import type { Site } from '@/api/types';
 import { daySegments, monthGridDays, queryRange, weekDays, type DaySegment } from '@/components/remaps/remaps-calendar';
 import { useAsync } from './useAsync';
 
 export type CalendarMode = 'month' | 'week';
 
-/** One request's piece on one calendar day, with its site for the label. */
+/** One request's piece on one calendar day. */
 export interface CalendarEntry {
   remap: RemapRequest;
-  site: Pick<Site, 'id' | 'name' | 'timezone'> | null;
   segment: DaySegment;
 }
 
@@ -21,17 +18,13 @@ export interface CalendarEntry {
  */
 export function useRemapsCalendar(mode: () => CalendarMode, anchor: () => string) {
   const days = computed(() => (mode() === 'month' ? monthGridDays(anchor()) : weekDays(anchor())));
-  const sites = useAsync(listSites);
-  const state = useAsync(async () => {
+  const state = useAsync(() => {
     const shown = days.value;
     const { from, to } = queryRange(shown[0], shown[shown.length - 1]);
-    // Site names for the labels; asked once per page.
-    const [remaps] = await Promise.all([listRemapsInRange(from, to), sites.data.value ? Promise.resolve(sites.data.value) : sites.run()]);
-    return remaps;
+    return listRemapsInRange(from, to);
   });
 
   const byDay = computed(() => {
-    const siteById = new Map((sites.data.value ?? []).map((s) => [s.id, s]));
     const shown = new Set(days.value);
     const map = new Map<string, CalendarEntry[]>();
     for (const remap of state.data.value ?? []) {
@@ -39,7 +32,7 @@ export function useRemapsCalendar(mode: () => CalendarMode, anchor: () => string
       for (const segment of daySegments(remap.window.localStart, remap.window.localEnd)) {
         if (!shown.has(segment.day)) continue;
         const list = map.get(segment.day) ?? [];
-        list.push({ remap, site: siteById.get(remap.siteId) ?? null, segment });
+        list.push({ remap, segment });
         map.set(segment.day, list);
       }
     }
@@ -50,5 +43,5 @@ export function useRemapsCalendar(mode: () => CalendarMode, anchor: () => string
   /** Requests with a window on the shown days (a request across midnight counts once). */
   const count = computed(() => new Set([...byDay.value.values()].flat().map((e) => e.remap.id)).size);
 
-  return { ...state, days, byDay, count, sitesError: sites.error };
+  return { ...state, days, byDay, count };
 }

@@ -2,6 +2,7 @@
 // decides (and answers 403 or 409 otherwise); these only choose which controls to show.
 import type { RemapPriorityLabel, RemapRequest, RemapStatus } from '@/api/remaps.api';
 import type { Role } from '@/api/types';
+import type { ZoneStatus } from '@/api/zones.api';
 import type { TagTone } from '@/components/maps/MapsToneTag.vue';
 
 /** Every status, in the order a request moves through them (cancelled last). */
@@ -58,19 +59,21 @@ export type RemapAction = 'approve' | 'schedule' | 'reschedule' | 'start' | 'att
 /**
  * Returns the steps `role` may take with `remap` in its present state, in the order the header
  * shows them: approve (site managers, admins) while a mapper's proposal waits; schedule once
- * approved and reschedule while scheduled, start when scheduled, attach the uploaded map while in
- * progress (mappers, admins); cancel before the new map is uploaded (site managers, mappers, admins).
+ * approved and reschedule while scheduled, start when scheduled, attach the remap run's map while
+ * in progress, while the attached one is still a draft, or after "not fixed" (mappers, admins);
+ * cancel until verified (site managers, mappers, admins).
  */
-export function allowedRemapActions(remap: Pick<RemapRequest, 'status' | 'approvedAt'>, role: Role): RemapAction[] {
+export function allowedRemapActions(remap: Pick<RemapRequest, 'status' | 'approvedAt' | 'mapVersionAfter'>, role: Role): RemapAction[] {
   const actions: RemapAction[] = [];
   const manager = role === 'admin' || role === 'site_manager';
   const performer = canPerformRemaps(role);
+  const { status } = remap;
   if (manager && awaitsApproval(remap)) actions.push('approve');
-  if (performer && remap.status === 'proposed' && !awaitsApproval(remap)) actions.push('schedule');
-  if (performer && remap.status === 'scheduled') actions.push('start', 'reschedule');
-  if (performer && remap.status === 'in_progress') actions.push('attach-map');
-  const cancellable = remap.status === 'proposed' || remap.status === 'scheduled' || remap.status === 'in_progress';
-  if (role !== 'viewer' && cancellable) actions.push('cancel');
+  if (performer && status === 'proposed' && !awaitsApproval(remap)) actions.push('schedule');
+  if (performer && status === 'scheduled') actions.push('start', 'reschedule');
+  const attachable = status === 'in_progress' || status === 'not_fixed' || (status === 'map_uploaded' && remap.mapVersionAfter?.status === 'draft');
+  if (performer && attachable) actions.push('attach-map');
+  if (role !== 'viewer' && status !== 'verified' && status !== 'cancelled') actions.push('cancel');
   return actions;
 }
 
@@ -126,4 +129,9 @@ export function beforeAfterWords(before: { agreement: number | null; changedArea
   const area = (m2: number) => m2.toFixed(1);
   if (!after) return `agreement ${agreementWords(before.agreement)}, changed area ${area(before.changedAreaM2)} m² before the new map`;
   return `agreement ${agreementWords(before.agreement)} → ${agreementWords(after.agreement)}, changed area ${area(before.changedAreaM2)} → ${area(after.changedAreaM2)} m²`;
+}
+
+/** Returns true when a zone in this status may join a new remap request (open or acknowledged; the server answers 409 otherwise). */
+export function isPlannableZoneStatus(status: ZoneStatus): boolean {
+  return status === 'open' || status === 'acknowledged';
 }

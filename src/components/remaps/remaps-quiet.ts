@@ -18,9 +18,9 @@ export function weekdayShort(dow: number): string {
   return WEEKDAYS[dow - 1] ?? '';
 }
 
-/** Returns the mean returns of each of the 168 hours of the week, 0 where the server lists none. */
-export function weekSeries(hours: readonly HourOfWeekTraffic[]): number[] {
-  const series = new Array<number>(WEEK_HOURS).fill(0);
+/** Returns the mean returns of each of the 168 hours of the week, null where there is no history (the chart leaves a gap). */
+export function weekSeries(hours: readonly HourOfWeekTraffic[]): (number | null)[] {
+  const series = new Array<number | null>(WEEK_HOURS).fill(null);
   for (const h of hours) {
     if (h.dow >= 1 && h.dow <= 7 && h.hour >= 0 && h.hour <= 23) series[hourOfWeekIndex(h.dow, h.hour)] = h.meanReturns;
   }

@@ -2,8 +2,11 @@ import { describe, expect, it } from 'vitest';
 import { allowedRemapActions, beforeAfterWords, durationWords, estimateWords, localWindowWords } from '../../../../src/domain/remaps.js';
 
 describe('allowedRemapActions', () => {
-  const proposedByMapper = { status: 'proposed' as const, approvedAt: null };
-  const approved = { status: 'proposed' as const, approvedAt: '2026-12-01T10:00:00Z' };
+  // Transitions as server/services/remaps.service.ts allows them (its route table of roles and states).
+  const base = { approvedAt: '2026-12-01T10:00:00Z', mapVersionAfter: null };
+  const proposedByMapper = { ...base, status: 'proposed' as const, approvedAt: null };
+  const approved = { ...base, status: 'proposed' as const };
+  const after = (status: 'draft' | 'active') => ({ id: 'v2', version: 2, status, activatedAt: null });
 
   it('when a mapper’s proposal waits, then a site manager may approve or cancel it and the mapper may only cancel it', () => {
     expect(allowedRemapActions(proposedByMapper, 'site_manager')).toEqual(['approve', 'cancel']);
@@ -17,16 +20,23 @@ describe('allowedRemapActions', () => {
   });
 
   it('when a request is scheduled or in progress, then mappers start, reschedule and attach the new map', () => {
-    expect(allowedRemapActions({ status: 'scheduled', approvedAt: 'x' }, 'mapper')).toEqual(['start', 'reschedule', 'cancel']);
-    expect(allowedRemapActions({ status: 'in_progress', approvedAt: 'x' }, 'mapper')).toEqual(['attach-map', 'cancel']);
+    expect(allowedRemapActions({ ...base, status: 'scheduled' }, 'mapper')).toEqual(['start', 'reschedule', 'cancel']);
+    expect(allowedRemapActions({ ...base, status: 'in_progress' }, 'mapper')).toEqual(['attach-map', 'cancel']);
   });
 
-  it('when the user is a viewer, or the request is closed, then there is nothing to do', () => {
+  it('when the attached map is still a draft, or the remap did not fix the zones, then another map may be attached; not once it is active', () => {
+    expect(allowedRemapActions({ ...base, status: 'map_uploaded', mapVersionAfter: after('draft') }, 'mapper')).toEqual(['attach-map', 'cancel']);
+    expect(allowedRemapActions({ ...base, status: 'map_uploaded', mapVersionAfter: after('active') }, 'mapper')).toEqual(['cancel']);
+    expect(allowedRemapActions({ ...base, status: 'not_fixed', mapVersionAfter: after('active') }, 'admin')).toEqual(['attach-map', 'cancel']);
+    expect(allowedRemapActions({ ...base, status: 'not_fixed', mapVersionAfter: after('active') }, 'site_manager')).toEqual(['cancel']);
+  });
+
+  it('when the user is a viewer, or the request is verified or cancelled, then there is nothing to do', () => {
     for (const status of ['proposed', 'scheduled', 'in_progress', 'map_uploaded', 'verified', 'not_fixed', 'cancelled'] as const) {
-      expect(allowedRemapActions({ status, approvedAt: 'x' }, 'viewer')).toEqual([]);
+      expect(allowedRemapActions({ ...base, status }, 'viewer')).toEqual([]);
     }
-    for (const status of ['map_uploaded', 'verified', 'not_fixed', 'cancelled'] as const) {
-      expect(allowedRemapActions({ status, approvedAt: 'x' }, 'admin')).toEqual([]);
+    for (const status of ['verified', 'cancelled'] as const) {
+      expect(allowedRemapActions({ ...base, status }, 'admin')).toEqual([]);
     }
   });
 });

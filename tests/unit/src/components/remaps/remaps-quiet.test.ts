@@ -4,17 +4,19 @@ import { hourLabel, hourOfWeekIndex, hourTitle, weekSeries, windowHours } from '
 const window = (localStart: string, localEnd: string, rank: number) => ({ start: '', end: '', localStart, localEnd, expectedReturns: 0, rank });
 
 describe('weekSeries', () => {
-  it('when the server lists some hours, then they land at (dow − 1) · 24 + hour and the rest are 0', () => {
+  it('when the server lists some hours, then they land at (dow − 1) · 24 + hour and the rest have no value', () => {
     const series = weekSeries([
       { dow: 1, hour: 0, meanReturns: 5 },
       { dow: 7, hour: 23, meanReturns: 9 },
       { dow: 3, hour: 14, meanReturns: 2.5 },
+      { dow: 4, hour: 1, meanReturns: null },
     ]);
     expect(series).toHaveLength(168);
     expect(series[0]).toBe(5);
     expect(series[167]).toBe(9);
     expect(series[hourOfWeekIndex(3, 14)]).toBe(2.5);
-    expect(series.filter((v) => v !== 0)).toHaveLength(3);
+    expect(series.filter((v) => v !== null)).toHaveLength(3);
+    expect(series[hourOfWeekIndex(4, 1)]).toBeNull();
   });
 });
 

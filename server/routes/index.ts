@@ -4,6 +4,7 @@ import type { Config } from '../config.js';
 import type { Services } from '../services/index.js';
 import { auditRoutes } from './audit.routes.js';
 import { authRoutes } from './auth.routes.js';
+import { dockingRoutes } from './docking.routes.js';
 import { healthRoutes } from './health.routes.js';
 import { ingestRoutes } from './ingest.routes.js';
 import { invitationsRoutes } from './invitations.routes.js';
@@ -40,6 +41,7 @@ export function routeTable(services: Services, config: Config, db: DataSource, v
     { path: '/sites/:siteId/map-versions', router: mapVersionsRoutes(services) },
     { path: '/sites/:siteId/scan-batches', router: scanBatchesRoutes(services, config) },
     { path: '/sites/:siteId/zones', router: zonesRoutes(services) },
+    { path: '/sites/:siteId/stations', router: dockingRoutes(services) },
     { path: '/sites/:siteId/remaps', router: remapsRoutes(services) },
     { path: '/remaps', router: remapCalendarRoutes(services) },
     { path: '/ingest', router: ingestRoutes(services) },

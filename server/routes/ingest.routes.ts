@@ -2,6 +2,7 @@ import express, { Router } from 'express';
 import { z } from 'zod';
 import { robotOf, robotToken } from '../middleware/robot-token.js';
 import { validate } from '../middleware/validate.js';
+import { DOCKING_BATCH_MAX_BYTES } from '../services/docking.service.js';
 import { ROBOT_BATCH_MAX_BYTES } from '../services/ingest.service.js';
 import type { Services } from '../services/index.js';
 
@@ -18,6 +19,14 @@ export function ingestRoutes(services: Services) {
     const raw = Buffer.isBuffer(req.body) ? req.body : Buffer.alloc(0);
     const key = res.locals.headers['idempotency-key'] ?? null;
     const result = await services.ingest.ingestRobotBatch(robotOf(res), raw, key);
+    res.status(result.status === 'counted' ? 201 : 200).json(result);
+  });
+
+  // Docking results (station, final dx, dy, dyaw): the same token, key and replay rules as scans.
+  const dockingBody = express.raw({ type: () => true, limit: DOCKING_BATCH_MAX_BYTES, inflate: true });
+  router.post('/docking', robotToken(services.robots), dockingBody, validate({ headers }), async (req, res) => {
+    const raw = Buffer.isBuffer(req.body) ? req.body : Buffer.alloc(0);
+    const result = await services.docking.ingestRobotBatch(robotOf(res), raw, res.locals.headers['idempotency-key'] ?? null);
     res.status(result.status === 'counted' ? 201 : 200).json(result);
   });
 

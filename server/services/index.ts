@@ -5,6 +5,7 @@ import type { Config } from '../config.js';
 import { AuditService } from './audit.service.js';
 import { DemoSeedProgress } from './demo-seed.service.js';
 import { DetectionService } from './detection.service.js';
+import { DockingService } from './docking.service.js';
 import { HealthService } from './health.service.js';
 import { IngestService } from './ingest.service.js';
 import { InvitationsService } from './invitations.service.js';
@@ -49,6 +50,7 @@ export function createServices(db: DataSource, config: Config, sessions: Session
     invitations: new InvitationsService(db, audit, config.baseUrl, log),
     organizations: new OrganizationsService(db, audit),
     robots,
+    docking: new DockingService(db, sites, audit),
   };
 }
 

@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Robot, RobotFlag } from '../../server/entities/index.js';
 import { listRoutes } from '../../server/routes/index.js';
 import { insertZone, roomMap, scanLine } from './helpers/fixtures.js';
+import { dockingLine, uploadStationModel } from './helpers/docking-fixtures.js';
 import { actorByEmail, MAPPER_EMAIL, openZone, remapAt } from './helpers/remap-fixtures.js';
 import { createTestApp, demoAccount, demoIds, signIn, type TestApp } from './helpers/test-app.js';
 
@@ -40,6 +41,9 @@ async function newFlag(c: Ctx) {
   const flag = c.t.dataSource.getRepository(RobotFlag).create({ id: crypto.randomUUID(), robotId: c.ids.ambergateRobot, scanner: 'front', status: 'active', raisedAt: new Date(), figures: { days: [], meanAgreement: 0.8, fleetMedian: 0.97, medianZ: -6 }, mount: null });
   await c.t.dataSource.getRepository(RobotFlag).save(flag);
   return flag.id;
+}
+async function newStation(c: Ctx) {
+  return c.t.services.docking.create(operator(c), c.ids.ambergateSite, { name: `MX station ${c.who} ${c.n}` });
 }
 async function newRobot(c: Ctx) {
   return c.t.services.robots.create(operator(c), c.ids.ambergateSite, { name: `MX-${c.who}-${c.n}`, model: 'Matrix test', mounts: [] });
@@ -134,10 +138,25 @@ const CASES: Case[] = [
   },
   { route: 'POST /api/sites/:siteId/remaps/:remapId/cancel', expect: managers(200), prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'approved')}/cancel`), body: { reason: 'matrix' } }) },
   { route: 'GET /api/remaps', expect: signedIn(200), prepare: () => ({ path: `/api/remaps?from=${new Date(Date.now() - 86_400_000).toISOString()}&to=${new Date(Date.now() + 7 * 86_400_000).toISOString()}` }) },
+  { route: 'GET /api/sites/:siteId/stations', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/stations` }) },
+  { route: 'POST /api/sites/:siteId/stations', expect: managers(201), body: (c) => ({ name: `Matrix bay ${c.who} ${c.n}` }), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/stations` }) },
+  { route: 'GET /api/sites/:siteId/stations/:stationId', expect: signedIn(200), prepare: async (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/stations/${(await newStation(c)).id}` }) },
+  { route: 'PATCH /api/sites/:siteId/stations/:stationId', expect: managers(200), body: (c) => ({ name: `Matrix renamed ${c.who} ${c.n}` }), prepare: async (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/stations/${(await newStation(c)).id}` }) },
+  {
+    route: 'PUT /api/sites/:siteId/stations/:stationId/model',
+    expect: operatorOnly(200),
+    prepare: async (c) => {
+      const station = await newStation(c);
+      const model = await uploadStationModel(c.t.services, operator(c), c.ids.ambergateSite, station.name);
+      return { path: `/api/sites/${c.ids.ambergateSite}/stations/${station.id}/model`, body: { mapVersionId: model.id } };
+    },
+  },
+  { route: 'PUT /api/sites/:siteId/stations/:stationId/tolerance', expect: adminOnly(200), body: () => ({ toleranceMm: 12, toleranceDeg: null }), prepare: async (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/stations/${(await newStation(c)).id}/tolerance` }) },
   { route: 'GET /api/job-runs', expect: adminOnly(200) },
   { route: 'POST /api/job-runs', expect: adminOnly(202), body: () => ({ job: 'retention' }) },
   // Robots post with bearer tokens; a person's session is not enough.
   { route: 'POST /api/ingest/scans', expect: all(401), body: () => scanLine({}) },
+  { route: 'POST /api/ingest/docking', expect: all(401), body: () => dockingLine({}) },
   // Last: it changes each role's password (the role's session stays open).
   {
     route: 'POST /api/auth/change-password',

@@ -105,7 +105,7 @@ async function screenPointOf(page, version, x, y) {
   const tiles = await page.locator('.map-canvas__grid img.leaflet-tile-loaded').evaluateAll((imgs) =>
     imgs.map((img) => {
       const r = img.getBoundingClientRect();
-      return { src: img.src, left: r.left, top: r.top, width: r.width, height: r.height, opacity: getComputedStyle(img.parentElement).opacity };
+      return { src: img.src, left: r.left, top: r.top };
     }),
   );
   const parsed = tiles.map((t) => ({ ...t, zxy: /\/tiles\/(\d+)\/(\d+)\/(\d+)\.png/.exec(t.src)?.slice(1).map(Number) })).filter((t) => t.zxy);
@@ -118,14 +118,19 @@ async function screenPointOf(page, version, x, y) {
   const ty = Math.floor(py / TILE_SIZE);
   const tile = parsed.find((t) => t.zxy[0] === z && t.zxy[1] === tx && t.zxy[2] === ty);
   assert(tile, `no loaded tile ${z}/${tx}/${ty} holds the map point (${x}, ${y})`);
-  const scale = tile.width / TILE_SIZE;
+  // Screen pixels per tile pixel: 2^(map zoom − tile zoom), from the map's zoom rather than an image's rounded box.
+  const mapZoom = Number(await page.locator('.map-canvas').getAttribute('data-zoom'));
+  const scale = 2 ** (mapZoom - z);
   const metresPerTile = (TILE_SIZE / pixelsPerCell) * version.resolution;
-  return { x: tile.left + (px - tx * TILE_SIZE) * scale, y: tile.top + (py - ty * TILE_SIZE) * scale, z, tileSrc: tile.src, tile, pxPerMetre: tile.width / metresPerTile };
+  return { x: tile.left + (px - tx * TILE_SIZE) * scale, y: tile.top + (py - ty * TILE_SIZE) * scale, z, scale, pxPerMetre: (TILE_SIZE * scale) / metresPerTile };
 }
 
-/** Returns the grid colour [r, g, b] that the server's tile of zoom z shows at a screen point (read from the tile image, beneath every overlay). */
-async function tileColourAt(page, point, z) {
-  return page.evaluate(({ x, y, z }) => {
+/**
+ * Returns the grid colour [r, g, b] that the server's tile of zoom z shows at a screen point (read
+ * from the tile image, beneath every overlay); `scale` is screen pixels per tile pixel.
+ */
+async function tileColourAt(page, point, z, scale) {
+  return page.evaluate(({ x, y, z, scale }) => {
     const img = [...document.querySelectorAll('.map-canvas__grid img.leaflet-tile-loaded')].find((i) => {
       const r = i.getBoundingClientRect();
       return i.src.includes(`/tiles/${z}/`) && x >= r.left && x < r.right && y >= r.top && y < r.bottom;
@@ -137,9 +142,9 @@ async function tileColourAt(page, point, z) {
     canvas.height = img.naturalHeight;
     const ctx = canvas.getContext('2d');
     ctx.drawImage(img, 0, 0);
-    const d = ctx.getImageData(Math.floor(((x - r.left) * img.naturalWidth) / r.width), Math.floor(((y - r.top) * img.naturalHeight) / r.height), 1, 1).data;
+    const d = ctx.getImageData(Math.floor((x - r.left) / scale), Math.floor((y - r.top) / scale), 1, 1).data;
     return [d[0], d[1], d[2]];
-  }, { ...point, z });
+  }, { ...point, z, scale });
 }
 
 /** Reads the cursor readout ("x 12.34 m · y 5.67 m") as numbers in metres. */
@@ -268,7 +273,7 @@ export const tests = [
       const ink = [0x1e, 0x2a, 0x3f];
       const paper = [0xf6, 0xf3, 0xea];
       const near = (c, ref) => c && c.every((v, i) => Math.abs(v - ref[i]) <= 6);
-      const at = (dx, dy) => tileColourAt(page, { x: p.x + dx * p.pxPerMetre, y: p.y - dy * p.pxPerMetre }, p.z);
+      const at = (dx, dy) => tileColourAt(page, { x: p.x + dx * p.pxPerMetre, y: p.y - dy * p.pxPerMetre }, p.z, p.scale);
       assert(near(await at(0, 0), unknown), `the tile at the pillar's centre is ${await at(0, 0)}, not unknown`);
       for (const [dx, dy] of [[0.175, 0], [-0.175, 0], [0, 0.175], [0, -0.175]]) {
         assert(near(await at(dx, dy), ink), `the tile ${dx} m, ${dy} m from the pillar's centre is ${await at(dx, dy)}, not structure`);

@@ -14,6 +14,11 @@ describe('fitView', () => {
     expect(view.centre.y).toBeCloseTo(20, 9);
   });
 
+  it('when only whole zoom steps are allowed, then the fit takes the whole step below', () => {
+    // Same figures as above: log2 2.70 = 1.43 → 1.
+    expect(fitView(demo, { width: 1000, height: 600 }, { ...options, snap: 1 }).zoom).toBe(1);
+  });
+
   it('when the viewport is huge, then the zoom stops at the deepest zoom of the pyramid', () => {
     expect(fitView(demo, { width: 100_000, height: 100_000 }, options).zoom).toBe(4);
   });

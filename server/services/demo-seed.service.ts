@@ -9,6 +9,7 @@ import type { Actor } from '../auth/actor.js';
 import { hashPassword } from '../auth/password.js';
 import { AuditEvent, Organization, Robot, ScanBatch, Site, User } from '../entities/index.js';
 import type { Role } from '../entities/user.entity.js';
+import { seedDemoDocking } from './demo-docking.js';
 import { newId } from './ids.js';
 import type { Services } from './index.js';
 
@@ -124,6 +125,8 @@ export async function seedDemoEvidence(db: DataSource, services: Services, log: 
   const actor: Actor = { id: mapper.id, email: mapper.email, name: mapper.name, role: mapper.role, organizationId: mapper.organizationId };
   progress.state = 'seeding';
   progress.sitesDone = 0;
+  // Docking stations and their weeks of dockings first: a few seconds, independent of the scans.
+  await seedDemoDocking(db, services, actor, today, days);
   for (const s of SITES) {
     const started = Date.now();
     progress.currentSite = s.name;

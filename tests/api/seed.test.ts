@@ -3,7 +3,8 @@ import { describe, expect, it } from 'vitest';
 import { createApp } from '../../server/app.js';
 import { testConfig } from '../../server/config.js';
 import { openDatabase } from '../../server/data-source.js';
-import { MapVersion, Organization, Robot, ScanBatch, Site, User } from '../../server/entities/index.js';
+import { DockingStation, MapVersion, Organization, Robot, ScanBatch, Site, User } from '../../server/entities/index.js';
+import { DEMO_STATION_COUNT } from '../../server/services/demo-docking.js';
 import { seedDemo } from '../../server/services/demo-seed.service.js';
 
 const log = pino({ level: 'silent' });
@@ -18,6 +19,9 @@ describe('demo seed', () => {
     // Per site: one scan batch a day and one batch of the last day's pose reports.
     expect(first).toEqual([3, 5, 5, 15]);
     expect(await db.getRepository(MapVersion).countBy({ status: 'active', kind: 'floor' })).toBe(5);
+    // Docking: two or three stations per site, each with its station model (a draft: station models are not activated).
+    expect(await db.getRepository(DockingStation).count()).toBe(DEMO_STATION_COUNT);
+    expect(await db.getRepository(MapVersion).countBy({ kind: 'station' })).toBe(DEMO_STATION_COUNT);
     const batches = await db.getRepository(ScanBatch).find();
     expect(batches.every((b) => b.status === 'counted' && b.rejectedCount === 0)).toBe(true);
     expect(batches.filter((b) => b.scans > 0)).toHaveLength(10);

@@ -31,12 +31,12 @@ function drifting(c: ChannelDrift, f: SentenceFormat): string {
   if (c.finding === 'step') {
     const s = c.step;
     const verb = c.channel === 'position' ? 'Moved' : 'Turned';
-    return `${verb} about ${amount(c, s.shift)} around ${f.day(s.atMs)} (Pettitt change-point test, ${pText(s.pValue)}): dockings since then sit ${amount(c, s.offsetAfter)} off on average, ${side(c, s.offsetAfter)}.`;
+    return `${verb} about ${amount(c, s.shift)} around ${f.day(s.atMs)} (Pettitt change-point test, ${pText(s.pValue)}): the median offset since then is ${amount(c, s.offsetAfter)}, ${side(c, s.offsetAfter)}.`;
   }
   const t = c.trend!;
   const what = c.channel === 'position' ? 'Creeping' : 'Turning';
   const head = `${what} ${rate(c, t.speedPerDay)} a day (Theil–Sen slope of the daily medians; Mann–Kendall test, ${pText(t.pValue)})`;
-  const now = `the mean offset is ${amount(c, t.offsetNow)} now`;
+  const now = `the fitted offset is ${amount(c, t.offsetNow)} now`;
   if (t.offsetNow >= c.tolerance) return `${head}: ${now}, past the ${amount(c, c.tolerance)} tolerance${t.crossingMs !== null ? ` since about ${f.day(t.crossingMs)}` : ''}.`;
   return `${head}: ${now} and at this rate passes the ${amount(c, c.tolerance)} tolerance around ${f.day(t.crossingMs!)}.`;
 }
@@ -49,10 +49,10 @@ export function driftSentence(v: DriftVerdict, f: SentenceFormat, recentDays = D
   const lead = v.channel === 'heading' ? v.heading : v.position;
   if (v.state === 'drifting') return drifting(lead, f);
   if (v.state === 'out_of_tolerance') {
-    return `No drift in the window, but the dockings of the last ${recentDays} days sit ${amount(lead, lead.recentOffset!)} off on average, beyond the ${amount(lead, lead.tolerance)} tolerance: the station model may not match the station as installed.`;
+    return `No drift in the window, but the median offset of the last ${recentDays} days is ${amount(lead, lead.recentOffset!)}, beyond the ${amount(lead, lead.tolerance)} tolerance: the station model may not match the station as installed.`;
   }
   const p = v.position;
-  const recent = p.recentOffset === null ? `no docking in the last ${recentDays} days` : `the last ${recentDays} days sit ${amount(p, p.recentOffset)} off on average (tolerance ${amount(p, p.tolerance)})`;
+  const recent = p.recentOffset === null ? `no docking in the last ${recentDays} days` : `median offset of the last ${recentDays} days ${amount(p, p.recentOffset)} (tolerance ${amount(p, p.tolerance)})`;
   let text = `Steady: no step or trend in the mean offset beyond the thresholds (Pettitt and Mann–Kendall tests at 1 %); ${recent}.`;
   const creeping = [v.position, v.heading].find((c) => c.trend?.significant && c.trend.crossingMs !== null && c.trend.speedPerDay > 0);
   if (creeping) text += ` A slow ${creeping.channel === 'position' ? 'creep' : 'turn'} of ${rate(creeping, creeping.trend!.speedPerDay)} a day would reach the tolerance around ${f.day(creeping.trend!.crossingMs!)}.`;

@@ -87,8 +87,11 @@ const round = (v: number, digits: number) => Math.round(v * 10 ** digits) / 10 *
 const ref = (r: Pick<RemapRequest, 'number'>) => `R-${r.number}`;
 const priorityLabel = (score: number) => (score >= PRIORITY_HIGH_MIN ? 'high' : score >= PRIORITY_MEDIUM_MIN ? 'medium' : 'low');
 
+/** Whole minutes of a window that holds the estimate (rounded up; a hair over a whole minute from floating point stays that minute). */
+export const windowMinutes = (totalMinutes: number) => Math.ceil(totalMinutes - 1e-9);
+
 function minutesText(minutes: number): string {
-  const m = Math.ceil(minutes);
+  const m = windowMinutes(minutes);
   const h = Math.floor(m / 60);
   return h > 0 ? `${h} h ${m % 60} min` : `${m} min`;
 }
@@ -271,7 +274,7 @@ export class RemapsService {
     if (remap.status !== 'proposed' && remap.status !== 'scheduled') throw conflict(`${ref(remap)} is ${STATUS_WORDS[remap.status]}; only proposed or scheduled requests can be given a window.`);
     if (!remap.approvedAt) throw conflict(`${ref(remap)} is waiting for the customer’s approval: a site manager of ${site.organization.name} (or an admin) approves it before it can be scheduled.`);
     const start = input.start;
-    const end = input.end ?? new Date(start.getTime() + Math.ceil(remap.estimate.totalMinutes) * 60_000);
+    const end = input.end ?? new Date(start.getTime() + windowMinutes(remap.estimate.totalMinutes) * 60_000);
     if (start.getTime() < now.getTime()) throw badRequest('The window must start in the future.', { fieldErrors: { start: ['must be in the future'] } });
     if (end.getTime() <= start.getTime()) throw badRequest('The window must end after it starts.', { fieldErrors: { end: ['must be after start'] } });
     if (end.getTime() - start.getTime() > MAX_WINDOW_HOURS * 3_600_000) throw badRequest(`A remap window may last at most ${MAX_WINDOW_HOURS} hours; split a longer job into two requests.`, { fieldErrors: { end: [`must be within ${MAX_WINDOW_HOURS} h of start`] } });
@@ -378,7 +381,7 @@ export class RemapsService {
     const first = hours.length ? DateTime.fromMillis(hours[0].hourStartMs, { zone: tz }).startOf('day').toMillis() : nowMs;
     const fromMs = Math.max(nowMs - QUIET_HISTORY_WEEKS * WEEK_MS, first);
     const profile = hourOfWeekProfile(hours, tz, fromMs, nowMs);
-    const durationMinutes = Math.ceil(remap.estimate.totalMinutes);
+    const durationMinutes = windowMinutes(remap.estimate.totalMinutes);
     const windows = quietWindows(profile, { timezone: tz, nowMs, days: q.days, durationMinutes, count: q.count });
     return {
       durationMinutes,
@@ -521,6 +524,7 @@ function view(r: RemapRequest, zones: Zone[]) {
       driveMinutes: round(e.driveMinutes, 1),
       overheadMinutes: e.overheadMinutes,
       totalMinutes: round(e.totalMinutes, 1),
+      windowMinutes: windowMinutes(e.totalMinutes),
     },
     window:
       r.windowStart && r.windowEnd

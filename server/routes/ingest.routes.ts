@@ -8,7 +8,7 @@ import type { Services } from '../services/index.js';
 
 const headers = z.object({ 'idempotency-key': z.string().regex(/^[\x21-\x7e]{1,128}$/, 'must be 1–128 visible ASCII characters').optional() });
 
-/** /api/ingest: robots post JSON Lines scan batches with their bearer token. */
+/** /api/ingest: robots post JSON Lines scan batches and docking results with their bearer token. */
 export function ingestRoutes(services: Services) {
   const router = Router();
   // Any content type: robots send JSON Lines as text or gzip; Content-Encoding: gzip is unpacked

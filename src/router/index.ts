@@ -76,6 +76,20 @@ export const routes: RouteRecordRaw[] = [
         meta: { title: 'Remap request' },
       },
       {
+        path: 'docking',
+        name: 'site-docking',
+        component: () => import('@/views/SiteDockingView.vue'),
+        props: true,
+        meta: { title: 'Docking' },
+      },
+      {
+        path: 'docking/:stationId',
+        name: 'site-docking-station',
+        component: () => import('@/views/SiteDockingStationView.vue'),
+        props: true,
+        meta: { title: 'Docking station' },
+      },
+      {
         path: 'maps',
         name: 'site-maps',
         component: () => import('@/views/SiteMapVersionsView.vue'),

@@ -422,8 +422,11 @@ export class RemapsService {
     const tz = site.timezone;
     const exclusions = await this.health.exclusions(site);
     const activationDay = localDay(tz, active.activatedAt);
-    const complete = completeDays(tz, now, 1)[0];
-    const days = activationDay <= complete ? this.store.daysWithEvidence(active.id, activationDay, complete) : [];
+    // Evidence on the new version was counted after its activation, whatever day its scans are of (a
+    // recorded drive uploaded later counts too); look as far back as detection does, and at least far
+    // enough to reach the "not fixed" decision.
+    const window = completeDays(tz, now, Math.max(siteSettings(site).detectionWindowDays, NOT_FIXED_DAYS));
+    const days = this.store.daysWithEvidence(active.id, window[0], window[window.length - 1]);
     const geometry = geometryOf(active);
     const counters = createCounters(geometry);
     const robots: Array<{ robotId: string }> = await this.db.query('SELECT DISTINCT robot_id AS robotId FROM daily_stats WHERE map_version_id = ?', [active.id]);

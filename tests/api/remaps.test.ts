@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { AuditEvent, HourlyTraffic, RemapRequest, Zone } from '../../server/entities/index.js';
+import { AuditEvent, HourlyTraffic, RemapRequest, Robot, Site, Zone } from '../../server/entities/index.js';
 import { insertZone, roomMap } from './helpers/fixtures.js';
 import { createTestApp, demoIds, signIn, type TestApp } from './helpers/test-app.js';
 
@@ -260,5 +260,50 @@ describe('remap requests', () => {
     expect(r.area.marginM).toBe(0.5);
     // One cell grown by 0.5 m = 10 cells: the disc of radius 10 cells holds 317 cells (hand count of i² + j² ≤ 100), 0.7925 m².
     expect(r.area.areaM2).toBeCloseTo(0.79, 2);
+  });
+
+  it('when the new map is activated and a recorded drive of the last days is counted against it, then the next nightly run verifies the request and resolves its zone', async () => {
+    const zoneId = await zone();
+    const r = (await request(t.app).post(base()).set('Cookie', nadia).send({ zoneIds: [zoneId] })).body.remap;
+    const act = (action: string, body: object = {}) => request(t.app).post(`${base()}/${r.id}/${action}`).set('Cookie', tomas).send(body);
+    await act('schedule', { start: '2026-11-09T13:00:00Z', assigneeId: tomasId });
+    await act('start');
+    const next = await upload();
+    await act('attach-map', { mapVersionId: next });
+    expect((await request(t.app).post(`/api/sites/${site}/map-versions/${next}/activate`).set('Cookie', tomas).send({})).status).toBe(200);
+    // A commissioning drive of the three days before, uploaded after the activation: AMR-01 turns its
+    // front scanner full circle at 25 places in the room; each beam ends in the middle of the wall
+    // ring (x or y = 0.025 or 1.975 m), so every return is explained by the map.
+    const robot = await t.dataSource.getRepository(Robot).findOneByOrFail({ id: ids.ambergateRobot });
+    const mount = robot.mounts.find((m) => m.name === 'front') ?? { x: 0, y: 0, yaw: 0 };
+    const lines: string[] = [];
+    const beams = 720;
+    for (const day of ['2026-11-06', '2026-11-07', '2026-11-08']) {
+      for (let k = 0; k < 25; k++) {
+        const [sx, sy] = [0.3 + 0.35 * (k % 5), 0.3 + 0.35 * Math.floor(k / 5)];
+        // The base pose that puts the scanner at (sx, sy) facing +x: heading −yaw of the mount, and the
+        // mount's offset turned by that heading taken off (scanner pose = base pose ∘ mount, DESIGN.md §4.2).
+        const heading = -mount.yaw;
+        const [c, sn] = [Math.cos(heading), Math.sin(heading)];
+        const pose: [number, number, number] = [sx - (c * mount.x - sn * mount.y), sy - (sn * mount.x + c * mount.y), heading];
+        const ranges: number[] = [];
+        for (let b = 0; b < beams; b++) {
+          const a = -Math.PI + (b * 2 * Math.PI) / beams;
+          const [dx, dy] = [Math.cos(a), Math.sin(a)];
+          const tx = dx > 0 ? (1.975 - sx) / dx : dx < 0 ? (0.025 - sx) / dx : Infinity;
+          const ty = dy > 0 ? (1.975 - sy) / dy : dy < 0 ? (0.025 - sy) / dy : Infinity;
+          ranges.push(Math.round(Math.min(tx, ty) * 1000) / 1000);
+        }
+        lines.push(JSON.stringify({ t: `${day}T10:${String(k).padStart(2, '0')}:00.000Z`, robot: 'AMR-01', scanner: 'front', pose, angleMin: -Math.PI, angleIncrement: (2 * Math.PI) / beams, rangeMin: 0.05, rangeMax: 30, ranges }));
+      }
+    }
+    const siteRow = await t.dataSource.getRepository(Site).findOneByOrFail({ id: site });
+    await t.services.ingest.countLines(siteRow, lines, 'commissioning.jsonl', NOW);
+    const [run] = await t.services.jobRuns.detect('manual', site, NOW);
+    expect(run.figures).toMatchObject({ remaps: { checked: 1, verified: 1, notFixed: 0 } });
+    const after = (await request(t.app).get(`${base()}/${r.id}`).set('Cookie', nadia)).body.remap;
+    expect(after).toMatchObject({ status: 'verified', verification: { state: 'verified', evidenceDays: 3, zonesStillFlagging: 0 }, zones: [{ id: zoneId, status: 'resolved' }] });
+    // Every return ends on mapped structure: the new map explains all of them.
+    expect(after.verification.after.agreement).toBe(1);
   });
 });

@@ -315,10 +315,11 @@ export class RemapsService {
     this.allow(actor, 'attachMap', 'attach maps to');
     const { site, remap } = await this.find(actor, siteId, remapId);
     const before = remap.mapVersionBefore;
-    const replaceable = remap.status === 'map_uploaded' && remap.mapVersionAfter?.status === 'draft';
+    // An attached map that is not (or no longer, after a roll back) the active one may be replaced.
+    const replaceable = remap.status === 'map_uploaded' && remap.mapVersionAfter?.status !== 'active';
     if (remap.status !== 'in_progress' && remap.status !== 'not_fixed' && !replaceable) {
-      const why = remap.status === 'map_uploaded' ? `its new map version ${remap.mapVersionAfter?.version} is already active and under verification` : `it is ${STATUS_WORDS[remap.status]}`;
-      throw conflict(`A new map can be attached to ${ref(remap)} only while its remap run is in progress, while its attached map is still a draft, or after it was marked not fixed; ${why}.`);
+      const why = remap.status === 'map_uploaded' ? `its new map version ${remap.mapVersionAfter?.version} is active and under verification` : `it is ${STATUS_WORDS[remap.status]}`;
+      throw conflict(`A new map can be attached to ${ref(remap)} only while its remap run is in progress, while its attached map is not active, or after it was marked not fixed; ${why}.`);
     }
     const version = await this.db.getRepository(MapVersion).findOneBy({ id: mapVersionId, siteId: site.id });
     if (!version) throw badRequest(`The map version was not found at ${site.name}.`, { fieldErrors: { mapVersionId: ['must be a map version of this site'] } });

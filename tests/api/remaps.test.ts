@@ -183,6 +183,10 @@ describe('remap requests', () => {
     expect(attached.status).toBe(200);
     expect(attached.body.remap).toMatchObject({ status: 'map_uploaded', mapVersionAfter: { id: next, status: 'draft' } });
     expect(attached.body.remap.history.at(-1).summary).toMatch(/attached floor map version \d+ to R-\d+; activating it starts the verification/);
+    // While the attached map is not active it may be replaced by a corrected upload, not attached twice.
+    expect((await act(tomas, 'attach-map', { mapVersionId: next })).body.error.message).toMatch(/is already attached to R-\d+/);
+    const corrected = await upload();
+    expect((await act(tomas, 'attach-map', { mapVersionId: corrected })).body.remap.mapVersionAfter.id).toBe(corrected);
 
     // Cancelling: a reason is needed; the zones go back to where they were; a cancelled request stays cancelled.
     expect((await act(nadia, 'cancel', { reason: '' })).status).toBe(400);
@@ -197,7 +201,7 @@ describe('remap requests', () => {
     expect(again.body.error.message).toMatch(/is cancelled; it can no longer be cancelled/);
     expect((await act(tomas, 'start')).status).toBe(409);
     const actions = (await request(t.app).get(`${base()}/${r.id}`).set('Cookie', owen)).body.remap.history.map((h: { action: string }) => h.action);
-    expect(actions).toEqual(['remap.create', 'remap.schedule', 'remap.reschedule', 'remap.start', 'remap.attach_map', 'remap.cancel']);
+    expect(actions).toEqual(['remap.create', 'remap.schedule', 'remap.reschedule', 'remap.start', 'remap.attach_map', 'remap.attach_map', 'remap.cancel']);
     expect(await t.dataSource.getRepository(AuditEvent).countBy({ action: 'zone.unplan' })).toBe(2);
   });
 

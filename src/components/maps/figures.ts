@@ -24,3 +24,14 @@ export function byteSize(bytes: number): string {
 export function share(part: number, whole: number): string {
   return whole > 0 ? `${((100 * part) / whole).toFixed(1)} %` : '—';
 }
+
+const area = (digits: number) => new Intl.NumberFormat('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits });
+const AREA_SMALL = area(2);
+const AREA_MEDIUM = area(1);
+const AREA_LARGE = area(0);
+
+/** Returns an area in m² with precision by size: two decimals below 10 m², one below 1,000 m², whole above ("0.06 m²", "12.4 m²", "1,240 m²"). */
+export function squareMetres(value: number): string {
+  const format = value < 10 ? AREA_SMALL : value < 1000 ? AREA_MEDIUM : AREA_LARGE;
+  return `${format.format(value)} m²`;
+}

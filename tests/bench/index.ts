@@ -7,6 +7,7 @@ import { run as tiles } from './tiles.bench.js';
 import { run as changeDetection } from './change-detection.bench.js';
 import { run as detect } from './detect.bench.js';
 import { run as bundle } from './bundle.bench.js';
+import { run as mapDiff } from './map-diff.bench.js';
 
 const benches: [string, () => Promise<void>][] = [['traverse', traverse]];
 benches.push(['simulate', simulate]);
@@ -15,6 +16,7 @@ benches.push(['tiles', tiles]);
 benches.push(['change detection', changeDetection]);
 benches.push(['detect', detect]);
 benches.push(['bundle', bundle]);
+benches.push(['map diff', mapDiff]);
 
 for (const [name, run] of benches) {
   console.log(`\n== ${name} ==`);

@@ -1,20 +1,27 @@
 import { inflateRawSync } from 'node:zlib';
 import { LessThanOrEqual, MoreThanOrEqual, type DataSource } from 'typeorm';
-import { decodeTrail, splitTracks, type TrailPoints } from '../../shared/scan/trail.js';
+import { decodeTrail, simplifyTrack, splitTracks, type TrailPoints } from '../../shared/scan/trail.js';
 import type { Actor } from '../auth/actor.js';
 import { PoseTrail, Robot } from '../entities/index.js';
 import type { MapVersionsService } from './map-versions.service.js';
 import type { SitesService } from './sites.service.js';
 
-/** Most poses drawn per robot; longer trails are thinned further (a product choice that keeps the layer light). */
+/** Most poses drawn per robot; beyond it the oldest tracks are left out (a product choice that keeps the layer light). */
 export const MAX_POSES_PER_ROBOT = 4000;
+/** Tracks are simplified to within this distance of the driven line, metres (a product choice: a quarter of an aisle's half-width). */
+export const PATH_TOLERANCE_M = 0.25;
 
-/** Keeps every k-th pose of each track (and its last) so that all tracks together hold at most `max` poses. */
-function capPoses(tracks: Array<Array<[number, number]>>, max: number) {
-  const total = tracks.reduce((n, t) => n + t.length, 0);
-  if (total <= max) return tracks;
-  const step = Math.ceil(total / max);
-  return tracks.map((t) => t.filter((_, k) => k % step === 0 || k === t.length - 1)).filter((t) => t.length > 1);
+/** Simplifies each track, then keeps the newest poses up to `max` (tracks are in time order). */
+function lighten(tracks: Array<Array<[number, number]>>, max: number) {
+  const simple = tracks.map((t) => simplifyTrack(t, PATH_TOLERANCE_M));
+  const out: Array<Array<[number, number]>> = [];
+  let left = max;
+  for (let k = simple.length - 1; k >= 0 && left >= 2; k--) {
+    const t = simple[k].length > left ? simple[k].slice(simple[k].length - left) : simple[k];
+    out.unshift(t);
+    left -= t.length;
+  }
+  return out;
 }
 
 /** Robots' recent paths on a site's active map, from the thinned poses ingest keeps. */
@@ -57,7 +64,7 @@ export class PathsService {
       from: new Date(from).toISOString(),
       to: new Date(to).toISOString(),
       robots: robots
-        .map((r) => ({ robotId: r.id, name: r.name, tracks: capPoses(splitTracks(byRobot.get(r.id) ?? { t: [], x: [], y: [] }), MAX_POSES_PER_ROBOT) }))
+        .map((r) => ({ robotId: r.id, name: r.name, tracks: lighten(splitTracks(byRobot.get(r.id) ?? { t: [], x: [], y: [] }), MAX_POSES_PER_ROBOT) }))
         .filter((r) => r.tracks.length > 0),
     };
   }

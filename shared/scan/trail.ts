@@ -90,3 +90,42 @@ export function decodeTrail(bytes: Uint8Array): TrailPoints {
   }
   return points;
 }
+
+/** Distance from p to the segment a–b, metres. */
+function segmentDistance(p: [number, number], a: [number, number], b: [number, number]): number {
+  const dx = b[0] - a[0];
+  const dy = b[1] - a[1];
+  const len2 = dx * dx + dy * dy;
+  const u = len2 === 0 ? 0 : Math.max(0, Math.min(1, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / len2));
+  return Math.hypot(p[0] - (a[0] + u * dx), p[1] - (a[1] + u * dy));
+}
+
+/**
+ * Simplifies a track by the Ramer–Douglas–Peucker rule (Ramer 1972; Douglas & Peucker 1973): keeps
+ * the ends and, recursively, the pose farthest from the chord while it lies more than `toleranceM`
+ * from it. Straight aisle runs collapse to their ends; corners stay, so no line cuts across racks.
+ */
+export function simplifyTrack(track: Array<[number, number]>, toleranceM: number): Array<[number, number]> {
+  if (track.length <= 2) return track.slice();
+  const keep = new Uint8Array(track.length);
+  keep[0] = 1;
+  keep[track.length - 1] = 1;
+  // An explicit stack instead of recursion: a day's track can hold tens of thousands of poses.
+  const stack: Array<[number, number]> = [[0, track.length - 1]];
+  while (stack.length > 0) {
+    const [first, last] = stack.pop()!;
+    let worst = -1;
+    let worstDistance = toleranceM;
+    for (let k = first + 1; k < last; k++) {
+      const d = segmentDistance(track[k], track[first], track[last]);
+      if (d > worstDistance) {
+        worst = k;
+        worstDistance = d;
+      }
+    }
+    if (worst < 0) continue;
+    keep[worst] = 1;
+    stack.push([first, worst], [worst, last]);
+  }
+  return track.filter((_, k) => keep[k] === 1);
+}

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { decodeTrail, encodeTrail, splitTracks, TrailThinner } from '../../../../shared/scan/trail.js';
+import { decodeTrail, encodeTrail, simplifyTrack, splitTracks, TrailThinner } from '../../../../shared/scan/trail.js';
 
 const T0 = Date.UTC(2026, 10, 3, 8, 0, 0);
 
@@ -50,5 +50,32 @@ describe('packed trails', () => {
 
   it('when the bytes are not whole poses, then reading refuses them', () => {
     expect(() => decodeTrail(new Uint8Array(17))).toThrow(/multiple of 16 bytes/);
+  });
+});
+
+describe('simplifying tracks (Ramer 1972; Douglas & Peucker 1973)', () => {
+  it('when an L-shaped drive wobbles by 5 cm, then with a 0.25 m tolerance only its ends and the corner remain (worked by hand)', () => {
+    // Chord (0,0)–(2,3): distances |3x − 2y| / √13 are 0.80, 1.66, 1.11, 0.60 → the corner (2,0) is kept;
+    // then (1,0.05) lies 0.05 m from (0,0)–(2,0) and (2,1), (2.05,2) lie 0 and 0.05 m from (2,0)–(2,3): dropped.
+    const track: Array<[number, number]> = [[0, 0], [1, 0.05], [2, 0], [2, 1], [2.05, 2], [2, 3]];
+    expect(simplifyTrack(track, 0.25)).toEqual([[0, 0], [2, 0], [2, 3]]);
+  });
+
+  it('when every pose lies farther than the tolerance from the chords, then every pose stays', () => {
+    const zigzag: Array<[number, number]> = [[0, 0], [1, 1], [2, 0], [3, 1], [4, 0]];
+    expect(simplifyTrack(zigzag, 0.25)).toEqual(zigzag);
+  });
+
+  it('when a day-long loop of 50,000 poses is simplified, then it runs without deep recursion and keeps the corners', () => {
+    const square: Array<[number, number]> = [];
+    for (let k = 0; k < 50_000; k++) {
+      const s = (k * 0.1) % 40; // a 10 m square, 0.1 m a pose
+      const side = Math.floor(s / 10);
+      const u = s % 10;
+      square.push(side === 0 ? [u, 0] : side === 1 ? [10, u] : side === 2 ? [10 - u, 10] : [0, 10 - u]);
+    }
+    const simple = simplifyTrack(square, 0.25);
+    expect(simple.length).toBeLessThan(3000);
+    for (const p of simple) expect(p[0] === 0 || p[0] === 10 || p[1] === 0 || p[1] === 10).toBe(true);
   });
 });

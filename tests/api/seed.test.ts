@@ -10,6 +10,7 @@ import { seedDemo } from '../../server/services/demo-seed.service.js';
 const log = pino({ level: 'silent' });
 
 describe('demo seed', () => {
+  // Seeds five sites through the real ingest path: allow for a busy machine.
   it('when seeding an empty database, then every site gets an active map, its simulated robots and days of counted scans; a second run changes nothing', async () => {
     const db = await openDatabase({ database: ':memory:' });
     const { services } = createApp({ config: testConfig(), dataSource: db, log });
@@ -36,7 +37,7 @@ describe('demo seed', () => {
     expect(await seedDemo(db, services, log)).toBe(false);
     expect(await counts()).toEqual(first);
     await db.destroy();
-  });
+  }, 120_000);
 
   it('when the database already has an organization of its own, then the seed leaves it alone', async () => {
     const db = await openDatabase({ database: ':memory:' });

@@ -236,7 +236,7 @@ export class MapVersionsService {
     if (otherId === id) throw badRequest(`Compare version ${base.version} with another version of the site, not with itself.`);
     const other = await this.find(actor, siteId, otherId);
     for (const v of [base, other]) {
-      if (v.kind !== 'floor') throw badRequest(`Version ${v.version} is a station model; differences are shown between floor maps only.`);
+      if (v.kind !== 'floor') throw badRequest(`Station model version ${v.version} is not a floor map; differences are shown between floor maps only.`);
     }
     return { base, other };
   }

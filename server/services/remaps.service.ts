@@ -137,9 +137,9 @@ export class RemapsService {
     });
   }
 
-  private async find(actor: Actor, siteId: string, remapId: string, manager: EntityManager = this.db.manager) {
+  private async find(actor: Actor, siteId: string, remapId: string) {
     const site = await this.sites.getVisible(actor, siteId);
-    const remap = await manager.getRepository(RemapRequest).findOne({ where: { id: remapId, siteId: site.id }, relations: RELATIONS });
+    const remap = await this.db.getRepository(RemapRequest).findOne({ where: { id: remapId, siteId: site.id }, relations: RELATIONS });
     if (!remap) throw notFound('The remap request');
     return { site, remap };
   }

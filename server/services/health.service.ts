@@ -1,6 +1,6 @@
-import { In, type DataSource } from 'typeorm';
+import { In, MoreThanOrEqual, type DataSource } from 'typeorm';
 import { forecastHealth, healthBand, healthScore } from '../../shared/health/score.js';
-import { AgreementBlocks, DailyStat, RobotFlag, Robot, Site, Zone } from '../entities/index.js';
+import { AgreementBlocks, DailyStat, RemapRequest, RobotFlag, Robot, Site, Zone } from '../entities/index.js';
 import { ACTIVE_ZONE_STATUSES } from '../entities/zone.entity.js';
 import type { Actor } from '../auth/actor.js';
 import { decodeCounts } from './evidence-store.js';
@@ -140,6 +140,8 @@ export class HealthService {
     const zones = await this.db.getRepository(Zone).find({ where: { siteId: site.id, status: In(ACTIVE_ZONE_STATUSES) }, select: { id: true, kind: true, areaM2: true, persistence: true } });
     const openZones = { new: 0, missing: 0, unmapped: 0 };
     for (const z of zones) openZones[z.kind]++;
+    const remaps = this.db.getRepository(RemapRequest);
+    const next = await remaps.findOne({ where: { siteId: site.id, status: In(['scheduled', 'in_progress']), windowEnd: MoreThanOrEqual(now) }, order: { windowStart: 'ASC' } });
     return {
       score,
       band: score === null ? null : healthBand(score, limits),
@@ -158,6 +160,9 @@ export class HealthService {
       openZones,
       changedAreaM2: zones.reduce((a, z) => a + z.areaM2, 0),
       flaggedRobots: exclusions.active.length,
+      nextRemap: next && next.windowStart && next.windowEnd ? { id: next.id, number: next.number, title: next.title, status: next.status, start: next.windowStart.toISOString(), end: next.windowEnd.toISOString() } : null,
+      // Requests waiting to be scheduled (proposed).
+      remapsWaiting: await remaps.countBy({ siteId: site.id, status: 'proposed' }),
     };
   }
 }

@@ -105,6 +105,10 @@ export interface SiteHealth {
   openZones: ZoneCounts;
   changedAreaM2: number;
   flaggedRobots: number;
+  /** The earliest scheduled or running remap whose window has not ended (instants ISO). */
+  nextRemap: { id: string; number: number; title: string; status: 'scheduled' | 'in_progress'; start: string; end: string } | null;
+  /** Remap requests proposed and not yet scheduled. */
+  remapsWaiting: number;
 }
 
 export interface Site {

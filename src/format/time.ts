@@ -44,3 +44,12 @@ export function timeAgo(iso: string | null, now: Date = new Date(), fallback = '
   if (abs < 30 * 86_400) return format.format(Math.round(seconds / 86_400), 'day');
   return dateTime(iso);
 }
+
+/** Returns an instant as the wall-clock date and time of an IANA time zone ("Tue 8 Dec, 02:00"), or "—". */
+export function siteDateTime(iso: string, timezone: string): string {
+  try {
+    return new Intl.DateTimeFormat('en-GB', { timeZone: timezone, weekday: 'short', day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' }).format(new Date(iso));
+  } catch {
+    return '—';
+  }
+}

@@ -54,6 +54,13 @@ export function remapsRoutes(services: Services) {
     res.json({ remap: await remaps.get(actorOf(res), siteId, remapId) });
   });
 
+  router.get('/:remapId/calendar.ics', validate({ params: remapParams }), async (_req, res) => {
+    const { siteId, remapId } = res.locals.params;
+    const file = await remaps.calendarFile(actorOf(res), siteId, remapId);
+    res.setHeader('Content-Disposition', `attachment; filename="${file.fileName}"`);
+    res.type('text/calendar; charset=utf-8').send(file.text);
+  });
+
   router.get('/:remapId/quiet-windows', validate({ params: remapParams, query: quietQuery }), async (_req, res) => {
     const { siteId, remapId } = res.locals.params;
     res.json({ quietWindows: await remaps.quietWindows(actorOf(res), siteId, remapId, res.locals.query) });

@@ -31,7 +31,7 @@ export function createServices(db: DataSource, config: Config, sessions: Session
   const scannerCheck = new ScannerCheckService(db, sites, robots, mapVersions, audit);
   const detection = new DetectionService(db, sites, mapVersions, health, scannerCheck, audit, log);
   const traffic = new TrafficService(db);
-  const remaps = new RemapsService(db, sites, mapVersions, health, traffic, audit, log);
+  const remaps = new RemapsService(db, sites, mapVersions, health, traffic, audit, log, config.baseUrl);
   return {
     health,
     scannerCheck,

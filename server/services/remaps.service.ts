@@ -15,6 +15,7 @@ import type { Role } from '../entities/user.entity.js';
 import { ACTIVE_ZONE_STATUSES } from '../entities/zone.entity.js';
 import { badRequest, conflict, forbidden, notFound } from '../http-error.js';
 import type { AuditService } from './audit.service.js';
+import { remapCalendarFile } from './remap-calendar.js';
 import { EvidenceStore } from './evidence-store.js';
 import type { HealthService } from './health.service.js';
 import { newId } from './ids.js';
@@ -114,6 +115,7 @@ export class RemapsService {
     private readonly traffic: TrafficService,
     private readonly audit: AuditService,
     private readonly log: Logger,
+    private readonly baseUrl: string,
   ) {
     this.store = new EvidenceStore(db);
   }
@@ -295,6 +297,33 @@ export class RemapsService {
       `${actor.name} ${again ? 'moved' : 'scheduled'} ${ref(remap)} ${again ? 'to' : 'for'} ${when}, assigned to ${assignee.name}.`,
     );
     return this.get(actor, site.id, remap.id);
+  }
+
+  /**
+   * The iCalendar file (RFC 5545) of a request's window, for the assignee's calendar; 409 before the
+   * request has a window. Its SEQUENCE counts the window's changes, so a calendar updates the entry.
+   */
+  async calendarFile(actor: Actor, siteId: string, remapId: string): Promise<{ fileName: string; text: string }> {
+    const { site, remap } = await this.find(actor, siteId, remapId);
+    if (!remap.windowStart || !remap.windowEnd) throw conflict(`${ref(remap)} has no window yet: a mapper schedules it first.`);
+    const moves = await this.db.getRepository(AuditEvent).countBy({ targetType: 'remap_request', targetId: remap.id, action: In(['remap.schedule', 'remap.reschedule', 'remap.cancel']) });
+    const [v] = await this.views([remap]);
+    const text = remapCalendarFile({
+      remapId: remap.id,
+      label: v.label,
+      title: remap.title,
+      siteName: site.name,
+      start: remap.windowStart,
+      end: remap.windowEnd,
+      cancelled: remap.status === 'cancelled',
+      areaM2: remap.area.areaM2,
+      totalMinutes: remap.estimate.totalMinutes,
+      zoneLabels: v.zones.map((z) => z.label),
+      assignee: remap.assignee ? { name: remap.assignee.name, email: remap.assignee.email } : null,
+      link: `${this.baseUrl}/sites/${site.id}/remaps/${remap.id}`,
+      sequence: Math.max(0, moves - 1),
+    });
+    return { fileName: `driftline-remap-${v.label}.ics`, text };
   }
 
   /** The mapper starts the remap run. */

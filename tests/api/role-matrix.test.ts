@@ -127,6 +127,7 @@ const CASES: Case[] = [
     expect: operatorOnly(200),
     prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'approved')}/schedule`), body: { start: new Date(Date.now() + 86_400_000).toISOString(), assigneeId: (await actorByEmail(c.t, MAPPER_EMAIL)).id } }),
   },
+  { route: 'GET /api/sites/:siteId/remaps/:remapId/calendar.ics', expect: signedIn(200), prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'scheduled')}/calendar.ics`) }) },
   { route: 'POST /api/sites/:siteId/remaps/:remapId/start', expect: operatorOnly(200), prepare: async (c) => ({ path: remapPath(c, `/${await remapAt(c.t, c.ids.ambergateSite, 'scheduled')}/start`), body: {} }) },
   {
     route: 'POST /api/sites/:siteId/remaps/:remapId/attach-map',

@@ -45,6 +45,8 @@ export interface RemapEstimate {
   driveMinutes: number;
   overheadMinutes: number;
   totalMinutes: number;
+  /** totalMinutes rounded up: the default window length and the quiet windows' duration. */
+  windowMinutes: number;
 }
 
 /** A scheduled window: UTC instants (ISO), the site's IANA time zone and the same instants as site-local 'YYYY-MM-DD HH:mm'. */

@@ -60,7 +60,7 @@ export type RemapAction = 'approve' | 'schedule' | 'reschedule' | 'start' | 'att
  * Returns the steps `role` may take with `remap` in its present state, in the order the header
  * shows them: approve (site managers, admins) while a mapper's proposal waits; schedule once
  * approved and reschedule while scheduled, start when scheduled, attach the remap run's map while
- * in progress, while the attached one is still a draft, or after "not fixed" (mappers, admins);
+ * in progress, while the attached one is not active (a draft, or rolled back), or after "not fixed" (mappers, admins);
  * cancel until verified (site managers, mappers, admins).
  */
 export function allowedRemapActions(remap: Pick<RemapRequest, 'status' | 'approvedAt' | 'mapVersionAfter'>, role: Role): RemapAction[] {
@@ -71,7 +71,7 @@ export function allowedRemapActions(remap: Pick<RemapRequest, 'status' | 'approv
   if (manager && awaitsApproval(remap)) actions.push('approve');
   if (performer && status === 'proposed' && !awaitsApproval(remap)) actions.push('schedule');
   if (performer && status === 'scheduled') actions.push('start', 'reschedule');
-  const attachable = status === 'in_progress' || status === 'not_fixed' || (status === 'map_uploaded' && remap.mapVersionAfter?.status === 'draft');
+  const attachable = status === 'in_progress' || status === 'not_fixed' || (status === 'map_uploaded' && remap.mapVersionAfter?.status !== 'active');
   if (performer && attachable) actions.push('attach-map');
   if (role !== 'viewer' && status !== 'verified' && status !== 'cancelled') actions.push('cancel');
   return actions;
@@ -128,7 +128,9 @@ export function agreementWords(share: number | null): string {
 export function beforeAfterWords(before: { agreement: number | null; changedAreaM2: number }, after: { agreement: number | null; changedAreaM2: number } | null): string {
   const area = (m2: number) => m2.toFixed(1);
   if (!after) return `agreement ${agreementWords(before.agreement)}, changed area ${area(before.changedAreaM2)} m² before the new map`;
-  return `agreement ${agreementWords(before.agreement)} → ${agreementWords(after.agreement)}, changed area ${area(before.changedAreaM2)} → ${area(after.changedAreaM2)} m²`;
+  // Without a complete day of evidence on the new map there is no "after" agreement yet, only the zones found so far.
+  const afterAgreement = after.agreement === null ? 'not measured yet' : agreementWords(after.agreement);
+  return `agreement ${agreementWords(before.agreement)} → ${afterAgreement}, changed area ${area(before.changedAreaM2)} → ${area(after.changedAreaM2)} m²`;
 }
 
 /** Returns true when a zone in this status may join a new remap request (open or acknowledged; the server answers 409 otherwise). */

@@ -3,7 +3,8 @@
 // test touches): the mapper picks persistent zones and proposes a remap, the site manager approves
 // it, the mapper schedules it in the first quiet window with a colleague and finds it on the
 // calendar, then starts it, uploads the remap run's map (the active map with the zones' structure
-// drawn in), attaches and activates it, and after a detection run the request shows its verification.
+// drawn in), attaches and activates it; after a detection run the request waits for evidence, and
+// after a recorded log of three days that agrees with the new map it is verified.
 import { request } from 'playwright-core';
 import pngjs from 'pngjs';
 import { accounts, assert, expectText, signIn } from './helpers.mjs';
@@ -151,6 +152,84 @@ function pgmOf(cells, width, height) {
   const pixels = Buffer.alloc(width * height);
   for (let j = 0; j < height; j++) for (let i = 0; i < width; i++) pixels[(height - 1 - j) * width + i] = GREY_OF_STATE[cells[j * width + i]];
   return Buffer.concat([header, pixels]);
+}
+
+/**
+ * A recorded scan log of one robot standing at free points of the request's area on each of `days`
+ * (ISO instants at midday), every beam traced through the new map's cells to the first occupied one
+ * (0.5-cell steps; no return beyond 30 m), so that the log agrees with the new map everywhere it looks.
+ * Poses: points of a 1 m lattice inside the area's outlines that lie in free space (map metres).
+ */
+function scanLogFor(version, cells, outlines, robot, instants) {
+  const { width, height, resolution, origin } = version;
+  const stateAt = (x, y) => {
+    const i = Math.floor((x - origin.x) / resolution);
+    const j = Math.floor((y - origin.y) / resolution);
+    return i < 0 || j < 0 || i >= width || j >= height ? null : cells[j * width + i];
+  };
+  const clear = (x, y) => [0, 0.3, -0.3].every((dx) => [0, 0.3, -0.3].every((dy) => stateAt(x + dx, y + dy) === FREE));
+  const points = [];
+  for (const outline of outlines) {
+    const xs = outline.map((p) => p[0]);
+    const ys = outline.map((p) => p[1]);
+    for (let x = Math.ceil(Math.min(...xs)); x <= Math.max(...xs); x++) {
+      for (let y = Math.ceil(Math.min(...ys)); y <= Math.max(...ys); y++) if (inside(outline, x, y) && clear(x, y)) points.push([x, y]);
+    }
+  }
+  assert(points.length > 0, 'the request’s area has no free point to stand a robot on');
+  const mount = robot.mounts[0] ?? { name: 'front', x: 0, y: 0, yaw: 0 };
+  const beams = 360;
+  const angleMin = -Math.PI;
+  const angleIncrement = (2 * Math.PI) / beams;
+  const rangeMax = 30;
+  const step = resolution / 2;
+  const lines = [];
+  for (const t of instants) {
+    points.forEach(([sx, sy], k) => {
+      const ranges = [];
+      for (let b = 0; b < beams; b++) {
+        const bearing = mount.yaw + angleMin + b * angleIncrement;
+        const [c, s] = [Math.cos(bearing), Math.sin(bearing)];
+        let range = null;
+        for (let r = step; r < rangeMax; r += step) {
+          const state = stateAt(sx + r * c, sy + r * s);
+          if (state === null) break;
+          if (state === OCCUPIED) {
+            range = Math.round(r * 1000) / 1000;
+            break;
+          }
+        }
+        ranges.push(range);
+      }
+      // Base pose with heading 0, so that the scanner (base ∘ mount) stands at the lattice point.
+      const pose = [sx - mount.x, sy - mount.y, 0];
+      lines.push(JSON.stringify({ t: new Date(Date.parse(t) + k * 1000).toISOString(), robot: robot.name, scanner: mount.name, pose, angleMin, angleIncrement, rangeMin: 0.05, rangeMax, ranges }));
+    });
+  }
+  return { log: Buffer.from(lines.join('\n') + '\n'), poses: points.length };
+}
+
+/** Runs the site's change detection now as an admin and waits for it; returns the finished run. */
+async function runDetection(baseUrl, siteId) {
+  const admin = await apiAs(baseUrl, accounts.admin);
+  try {
+    const asked = Date.now();
+    const started = await admin.post('/api/job-runs', { data: { job: 'detection', siteId }, headers: sameOrigin(baseUrl) });
+    assert(started.status() === 202, `starting the detection run answered ${started.status()}`);
+    const deadline = Date.now() + 120_000;
+    while (Date.now() < deadline) {
+      const { runs } = await getJson(admin, '/api/job-runs?job=detection&limit=50');
+      const run = runs.find((r) => r.siteId === siteId && Date.parse(r.startedAt) >= asked - 1000 && r.status !== 'running');
+      if (run) {
+        assert(run.status === 'succeeded', `the detection run failed: ${run.error}`);
+        return run;
+      }
+      await new Promise((resolve) => setTimeout(resolve, 1000));
+    }
+    throw new Error('the detection run was still running after 2 minutes');
+  } finally {
+    await admin.dispose();
+  }
 }
 
 export const tests = [
@@ -309,7 +388,7 @@ export const tests = [
     },
   },
   {
-    name: 'when the mapper starts the remap, attaches the uploaded map and it is activated, then after the detection run the request waits for fresh evidence with its figures before',
+    name: 'when the mapper starts the remap, attaches the uploaded map and it is activated, then the request waits for fresh evidence, and after three days of scans agreeing with the new map it is verified with its zones resolved',
     async run({ page, baseUrl, shared, screenshot }) {
       assert(shared.remap, 'the request of the first remaps test is missing');
       const { siteId } = shared.remap;
@@ -354,34 +433,55 @@ export const tests = [
       await page.reload();
       await expectText(page, `Version ${mapVersion.version} is active; waiting for the first nightly check`);
 
-      // The nightly detection, run now by an admin; it checks the request against the new map.
-      const admin = await apiAs(baseUrl, accounts.admin);
-      const asked = Date.now();
-      const started = await admin.post('/api/job-runs', { data: { job: 'detection', siteId }, headers: sameOrigin(baseUrl) });
-      assert(started.status() === 202, `starting the detection run answered ${started.status()}`);
-      const deadline = Date.now() + 120_000;
-      let run = null;
-      while (!run && Date.now() < deadline) {
-        const { runs } = await getJson(admin, '/api/job-runs?job=detection&limit=50');
-        run = runs.find((r) => r.siteId === siteId && Date.parse(r.startedAt) >= asked - 1000 && r.status !== 'running') ?? null;
-        if (!run) await new Promise((resolve) => setTimeout(resolve, 1000));
-      }
-      await admin.dispose();
-      assert(run && run.status === 'succeeded', `the detection run did not succeed: ${run ? run.error : 'still running after 2 minutes'}`);
-      assert(run.figures?.remaps?.checked === 1, `the detection run checked ${run.figures?.remaps?.checked} remap requests`);
-
-      // Verified needs at least 3 complete site-local days of evidence on the new map after its activation; the server
-      // reads the real clock, so a browser test of today's activation can only see the waiting state with the figures
-      // before (tests/api/remaps-verification.test.ts walks on to "verified" with a faked clock).
+      // The nightly detection, run now by an admin: no evidence on the new map yet, so the request waits, with its figures before.
+      const first = await runDetection(baseUrl, siteId);
+      assert(first.figures?.remaps?.checked === 1, `the detection run checked ${first.figures?.remaps?.checked} remap requests`);
       await page.reload();
       const verification = page.getByTestId('remap-verification');
       await verification.getByText('Waiting for fresh evidence on the new map').waitFor();
       await verification.getByText(/^0 days of evidence on the new map/).waitFor();
-      const figures = (await verification.getByTestId('remap-before-after').innerText()).trim();
+      let figures = (await verification.getByTestId('remap-before-after').innerText()).trim();
       assert(/^agreement \d+\.\d % → not measured yet, changed area \d+\.\d → \d+\.\d m²$/.test(figures), `the before/after figures read “${figures}”`);
-      const after = (await getJson(page.request, `${baseUrl}/api/sites/${siteId}/remaps/${shared.remap.id}`)).remap;
-      assert(after.verification?.state === 'waiting' && after.verification.evidenceDays === 0, `the verification is ${JSON.stringify(after.verification)}`);
-      assert(figures.includes(`changed area ${after.verification.before.changedAreaM2.toFixed(1)} →`), `the page’s figures “${figures}” are not the request’s`);
+      const waiting = (await getJson(page.request, `${baseUrl}/api/sites/${siteId}/remaps/${shared.remap.id}`)).remap;
+      assert(waiting.verification?.state === 'waiting' && waiting.verification.evidenceDays === 0, `the verification is ${JSON.stringify(waiting.verification)}`);
+
+      // Fresh evidence: a recorded log of the site's first robot in the area on each of the 3 days before today,
+      // counted against the new map (it is active); the next detection run then finds nothing flagging there.
+      const { robots } = await getJson(page.request, `${baseUrl}/api/sites/${siteId}/robots`);
+      assert(robots.length > 0, 'the demo site has no robot');
+      const days = [1, 2, 3].map((k) => {
+        const d = new Date();
+        return new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate() - k, 12)).toISOString();
+      });
+      const { log, poses } = scanLogFor(active, cells, remap.area.outlines, robots[0], days);
+      const sent = await page.request.post(`${baseUrl}/api/sites/${siteId}/scan-batches`, {
+        headers: sameOrigin(baseUrl),
+        multipart: { log: { name: `e2e-after-remap-${Date.now()}.jsonl`, mimeType: 'application/x-ndjson', buffer: log } },
+      });
+      assert(sent.status() === 202, `uploading the scan log answered ${sent.status()}: ${await sent.text()}`);
+      const { batch } = await sent.json();
+      let counted = batch;
+      for (let k = 0; k < 120 && counted.status === 'processing'; k++) {
+        await new Promise((resolve) => setTimeout(resolve, 500));
+        counted = (await getJson(page.request, `${baseUrl}/api/sites/${siteId}/scan-batches/${batch.id}`)).batch;
+      }
+      assert(counted.status === 'counted', `the scan log was ${counted.status}: ${counted.error ?? ''}`);
+      assert(counted.scans === 3 * poses, `expected ${3 * poses} scans counted, got ${counted.scans}`);
+
+      const second = await runDetection(baseUrl, siteId);
+      assert(second.figures?.remaps?.verified === 1, `the detection run verified ${second.figures?.remaps?.verified} requests: ${JSON.stringify(second.figures)}`);
+      await page.reload();
+      await page.getByText('verified', { exact: true }).first().waitFor();
+      await verification.getByText('Verified: the new map fixed these zones').waitFor();
+      await verification.getByText(/^3 days of evidence on the new map; none of the area flags any more/).waitFor();
+      figures = (await verification.getByTestId('remap-before-after').innerText()).trim();
+      assert(/^agreement \d+\.\d % → \d+\.\d %, changed area \d+\.\d → 0\.0 m²$/.test(figures), `the before/after figures read “${figures}”`);
+      const done = (await getJson(page.request, `${baseUrl}/api/sites/${siteId}/remaps/${shared.remap.id}`)).remap;
+      assert(done.status === 'verified' && done.zones.every((z) => z.status === 'resolved'), `the request is ${done.status} with zones ${done.zones.map((z) => z.status).join(', ')}`);
+      assert(figures.includes(`changed area ${done.verification.before.changedAreaM2.toFixed(1)} →`), `the page’s figures “${figures}” are not the request’s`);
+      await page.getByRole('list').filter({ hasText: zones[0].label }).getByText('resolved', { exact: true }).first().waitFor();
+      assert((await page.getByRole('group', { name: 'Request actions' }).count()) === 0, 'a verified request still offers actions');
+      await page.locator('.p-toast-message').first().waitFor({ state: 'detached', timeout: 10_000 }).catch(() => {});
       await screenshot('remap-verification.png');
     },
   },

@@ -6,7 +6,7 @@ describe('allowedRemapActions', () => {
   const base = { approvedAt: '2026-12-01T10:00:00Z', mapVersionAfter: null };
   const proposedByMapper = { ...base, status: 'proposed' as const, approvedAt: null };
   const approved = { ...base, status: 'proposed' as const };
-  const after = (status: 'draft' | 'active') => ({ id: 'v2', version: 2, status, activatedAt: null });
+  const after = (status: 'draft' | 'active' | 'archived') => ({ id: 'v2', version: 2, status, activatedAt: null });
 
   it('when a mapper’s proposal waits, then a site manager may approve or cancel it and the mapper may only cancel it', () => {
     expect(allowedRemapActions(proposedByMapper, 'site_manager')).toEqual(['approve', 'cancel']);
@@ -24,9 +24,10 @@ describe('allowedRemapActions', () => {
     expect(allowedRemapActions({ ...base, status: 'in_progress' }, 'mapper')).toEqual(['attach-map', 'cancel']);
   });
 
-  it('when the attached map is still a draft, or the remap did not fix the zones, then another map may be attached; not once it is active', () => {
+  it('when the attached map is a draft or was rolled back, or the remap did not fix the zones, then another map may be attached; not while it is active', () => {
     expect(allowedRemapActions({ ...base, status: 'map_uploaded', mapVersionAfter: after('draft') }, 'mapper')).toEqual(['attach-map', 'cancel']);
     expect(allowedRemapActions({ ...base, status: 'map_uploaded', mapVersionAfter: after('active') }, 'mapper')).toEqual(['cancel']);
+    expect(allowedRemapActions({ ...base, status: 'map_uploaded', mapVersionAfter: after('archived') }, 'mapper')).toEqual(['attach-map', 'cancel']);
     expect(allowedRemapActions({ ...base, status: 'not_fixed', mapVersionAfter: after('active') }, 'admin')).toEqual(['attach-map', 'cancel']);
     expect(allowedRemapActions({ ...base, status: 'not_fixed', mapVersionAfter: after('active') }, 'site_manager')).toEqual(['cancel']);
   });
@@ -58,5 +59,6 @@ describe('words', () => {
   it('when verification has figures before and after, then they read as one sentence', () => {
     expect(beforeAfterWords({ agreement: 0.912, changedAreaM2: 14.2 }, { agreement: 0.986, changedAreaM2: 0.4 })).toBe('agreement 91.2 % → 98.6 %, changed area 14.2 → 0.4 m²');
     expect(beforeAfterWords({ agreement: null, changedAreaM2: 3 }, null)).toBe('agreement no returns, changed area 3.0 m² before the new map');
+    expect(beforeAfterWords({ agreement: 0.9, changedAreaM2: 3 }, { agreement: null, changedAreaM2: 0 })).toBe('agreement 90.0 % → not measured yet, changed area 3.0 → 0.0 m²');
   });
 });

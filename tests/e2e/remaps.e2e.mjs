@@ -247,6 +247,13 @@ export const tests = [
       const table = page.getByRole('table', { name: 'Zones' });
       const rows = table.locator('tbody tr').filter({ hasText: 'persistent' }).filter({ has: page.getByText('open', { exact: true }) });
       await rows.first().waitFor();
+      // The zone's panel offers the same step for one zone.
+      await rows.first().getByRole('button', { name: /^Open zone / }).click();
+      const panel = page.getByRole('dialog');
+      await panel.getByTestId('zone-sentence').waitFor();
+      await panel.getByRole('button', { name: 'Plan a remap' }).waitFor();
+      await page.keyboard.press('Escape');
+      await panel.waitFor({ state: 'hidden' });
       const picked = [];
       for (let k = 0; k < Math.min(2, await rows.count()); k++) {
         const label = (await rows.nth(k).getByRole('button', { name: /^Open zone / }).innerText()).trim();

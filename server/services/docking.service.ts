@@ -237,7 +237,12 @@ export class DockingService {
     const samples: DockingSample[] = current.map((r) => ({ tMs: r.tMs, dx: r.dx, dy: r.dy, dyaw: r.dyaw }));
     const dayOf = (t: number) => DateTime.fromMillis(t, { zone: site.timezone }).toISODate()!;
     const verdict: DriftVerdict = detectDrift(samples, tol, now.getTime(), dayOf);
-    const dayText = (ms: number) => DateTime.fromMillis(ms, { zone: site.timezone }).toFormat('d LLL');
+    const today = DateTime.fromJSDate(now, { zone: site.timezone });
+    // "22 Nov" this year, "3 Feb 2027" in another.
+    const dayText = (ms: number) => {
+      const d = DateTime.fromMillis(ms, { zone: site.timezone });
+      return d.toFormat(d.year === today.year ? 'd LLL' : 'd LLL yyyy');
+    };
     const recentFrom = now.getTime() - DRIFT_DEFAULTS.recentDays * DAY_MS;
     return { tol, samples, dayOf, verdict, sentence: driftSentence(verdict, { day: dayText }), latest: summarizeAccuracy(samples.filter((s) => s.tMs >= recentFrom), tol), earlierModel: results.length - current.length };
   }

@@ -23,6 +23,7 @@ export function pText(p: number): string {
   return p < 0.001 ? 'p < 0.001' : `p = ${Number(p.toPrecision(2))}`;
 }
 
+const YEAR_MS = 365 * 86_400_000;
 const amount = (c: ChannelDrift, v: number) => (c.channel === 'position' ? millimetres(v) : degrees(v));
 const rate = (c: ChannelDrift, v: number) => (c.channel === 'position' ? `${(v * 1000).toFixed(2)} mm` : `${((v * 180) / Math.PI).toFixed(2)}°`);
 const side = (c: ChannelDrift, v: number) => `${v > c.tolerance ? 'beyond' : 'within'} the ${amount(c, c.tolerance)} tolerance`;
@@ -54,7 +55,8 @@ export function driftSentence(v: DriftVerdict, f: SentenceFormat, recentDays = D
   const p = v.position;
   const recent = p.recentOffset === null ? `no docking in the last ${recentDays} days` : `median offset of the last ${recentDays} days ${amount(p, p.recentOffset)} (tolerance ${amount(p, p.tolerance)})`;
   let text = `Steady: no step or trend in the mean offset beyond the thresholds (Pettitt and Mann–Kendall tests at 1 %); ${recent}.`;
-  const creeping = [v.position, v.heading].find((c) => c.trend?.significant && c.trend.crossingMs !== null && c.trend.speedPerDay > 0);
+  // A creep that would take more than a year to reach the tolerance is not worth a sentence.
+  const creeping = [v.position, v.heading].find((c) => c.trend?.significant && c.trend.crossingMs !== null && c.trend.crossingMs - v.atMs < YEAR_MS);
   if (creeping) text += ` A slow ${creeping.channel === 'position' ? 'creep' : 'turn'} of ${rate(creeping, creeping.trend!.speedPerDay)} a day would reach the tolerance around ${f.day(creeping.trend!.crossingMs!)}.`;
   return text;
 }

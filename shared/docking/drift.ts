@@ -110,6 +110,8 @@ export type DriftState = 'drifting' | 'out_of_tolerance' | 'steady' | 'insuffici
 /** The verdict on a station's dockings. */
 export interface DriftVerdict {
   state: DriftState;
+  /** The time judged at, ms since the epoch. */
+  atMs: number;
   results: number;
   days: number;
   /** The channel behind a drifting or out-of-tolerance state (position first), else null. */
@@ -229,9 +231,9 @@ export function detectDrift(samples: readonly DockingSample[], tol: DockingToler
   const sorted = [...samples].sort((a, b) => a.tMs - b.tMs);
   const dayKeys = sorted.map((s) => dayOf(s.tMs));
   const days = new Set(dayKeys).size;
-  if (sorted.length < Math.max(o.minResults, 2 * o.minSegment)) return { state: 'insufficient', results: sorted.length, days, channel: null, kind: null, position: null, heading: null };
+  if (sorted.length < Math.max(o.minResults, 2 * o.minSegment)) return { state: 'insufficient', atMs: nowMs, results: sorted.length, days, channel: null, kind: null, position: null, heading: null };
   const position = analyseChannel('position', sorted, dayKeys, tol.positionM, nowMs, o);
   const heading = analyseChannel('heading', sorted, dayKeys, tol.yawRad, nowMs, o);
   const lead = [position, heading].find((c) => c.state === 'drifting') ?? [position, heading].find((c) => c.state === 'out_of_tolerance') ?? null;
-  return { state: lead?.state ?? 'steady', results: sorted.length, days, channel: lead?.channel ?? null, kind: lead?.finding ?? null, position, heading };
+  return { state: lead?.state ?? 'steady', atMs: nowMs, results: sorted.length, days, channel: lead?.channel ?? null, kind: lead?.finding ?? null, position, heading };
 }

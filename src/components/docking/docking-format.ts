@@ -1,7 +1,12 @@
-/* How the Docking tab words and colours a station's verdict and figures. Imports no Vue, so unit tests read the same rules. */
-import type { DriftState, ToleranceSource } from '@/api/docking.api';
-import type { Role } from '@/api/types';
-import type { TagTone } from '@/components/maps/MapsToneTag.vue';
+/*
+ * How the Docking tab words and colours a station's verdict and figures. This file imports
+ * nothing (like settings-rules.ts), so the browser and the unit tests read the same rules; the
+ * types below mirror src/api/docking.api.ts, src/api/types.ts and MapsToneTag.vue.
+ */
+type DriftState = 'drifting' | 'out_of_tolerance' | 'steady' | 'insufficient';
+type ToleranceSource = 'station' | 'site' | 'default';
+type Role = 'admin' | 'mapper' | 'site_manager' | 'viewer';
+type TagTone = 'teal' | 'amber' | 'slate' | 'ink' | 'red';
 
 const labels: Record<DriftState, string> = { drifting: 'drifting', out_of_tolerance: 'out of tolerance', steady: 'steady', insufficient: 'too few dockings' };
 const tones: Record<DriftState, TagTone> = { drifting: 'red', out_of_tolerance: 'amber', steady: 'teal', insufficient: 'slate' };
@@ -73,7 +78,9 @@ export function localDayOf(ms: number, timezone: string): string {
   return new Date(ms + zoneOffsetMinutes(timezone, ms) * 60_000).toISOString().slice(0, 10);
 }
 
-/** Returns an instant as "22 Nov" or "22 Nov, 14:20" in a time zone. */
-export function siteDate(ms: number, timezone: string, withTime = false): string {
-  return new Intl.DateTimeFormat('en-GB', { timeZone: timezone, day: 'numeric', month: 'short', ...(withTime ? { hour: '2-digit', minute: '2-digit' } : {}) }).format(new Date(ms));
+/** Returns an instant as "22 Nov" or "22 Nov, 14:20" in a time zone, with the year when it is not the year of `reference` ("3 Feb 2027"). */
+export function siteDate(ms: number, timezone: string, withTime = false, reference: number = Date.now()): string {
+  const year = (t: number) => new Intl.DateTimeFormat('en-GB', { timeZone: timezone, year: 'numeric' }).format(new Date(t));
+  const withYear = year(ms) !== year(reference);
+  return new Intl.DateTimeFormat('en-GB', { timeZone: timezone, day: 'numeric', month: 'short', ...(withYear ? { year: 'numeric' } : {}), ...(withTime ? { hour: '2-digit', minute: '2-digit' } : {}) }).format(new Date(ms));
 }

@@ -42,6 +42,13 @@ export const tests = [
       // The tab, from the site's page.
       await page.getByRole('link', { name: site }).first().click();
       await page.getByRole('heading', { level: 1, name: site }).waitFor();
+      // The site's overview counts the drifting stations and names the one.
+      const card = page.locator('[data-card="docking"]');
+      await card.getByText('of 3 stations drifting').waitFor();
+      const cardText = (await card.innerText()).replace(/\s+/g, ' ');
+      assert(cardText.includes('1 of 3 stations drifting') && cardText.includes(`${drifting} drifting Moved about`), `the overview's docking card reads “${cardText}”`);
+      await card.scrollIntoViewIfNeeded();
+      await screenshot('docking-overview.png', { fullPage: false });
       await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: 'Docking', exact: true }).click();
       const table = page.getByRole('table', { name: 'Docking stations' });
       await table.waitFor();

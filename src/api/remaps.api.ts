@@ -1,3 +1,4 @@
+import { appConfig } from '@/config';
 import { apiRequest } from './client';
 import type { ZoneKind, ZonePersistence, ZoneStatus } from './zones.api';
 
@@ -226,6 +227,11 @@ export function attachRemapMap(siteId: string, remapId: string, mapVersionId: st
 /** Cancels a request (anything but verified or cancelled) with a reason (1–500 characters); zones still planned return to their earlier status. */
 export function cancelRemap(siteId: string, remapId: string, reason: string): Promise<RemapRequest> {
   return act(siteId, remapId, 'cancel', { reason });
+}
+
+/** Returns the URL of a request's iCalendar file (RFC 5545) for a download link; the server answers 409 before it has a window. */
+export function remapCalendarUrl(siteId: string, remapId: string): string {
+  return `${appConfig.apiBaseUrl}${remapPath(siteId, remapId)}/calendar.ics`;
 }
 
 /** Returns the scheduled, in-progress and later requests with a window overlapping [from, to) (at most 93 days) across every site the user may see. */

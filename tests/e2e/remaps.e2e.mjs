@@ -5,6 +5,7 @@
 // calendar, then starts it, uploads the remap run's map (the active map with the zones' structure
 // drawn in), attaches and activates it; after a detection run the request waits for evidence, and
 // after a recorded log of three days that agrees with the new map it is verified.
+import { readFileSync } from 'node:fs';
 import { request } from 'playwright-core';
 import pngjs from 'pngjs';
 import { accounts, assert, expectText, signIn } from './helpers.mjs';
@@ -369,6 +370,18 @@ export const tests = [
       await page.getByRole('list', { name: 'Quietest windows' }).getByRole('listitem').first().getByText('Scheduled here').waitFor();
       await page.locator('.p-toast-message').first().waitFor({ state: 'detached', timeout: 10_000 }).catch(() => {});
       await screenshot('remap-detail.png');
+
+      // The window as a calendar file (RFC 5545: VCALENDAR with VERSION and PRODID, a VEVENT with UID, DTSTAMP and DTSTART; UTC form YYYYMMDDTHHMMSSZ).
+      const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download calendar file (.ics)' }).click()]);
+      assert(download.suggestedFilename().endsWith('.ics'), `the calendar file is called “${download.suggestedFilename()}”`);
+      const ics = readFileSync(await download.path(), 'utf8');
+      const unfolded = ics.replace(/\r\n[ \t]/g, '');
+      const utc = (iso) => iso.replace(/[-:]/g, '').replace(/\.\d{3}/, '');
+      for (const line of ['BEGIN:VCALENDAR', 'VERSION:2.0', 'BEGIN:VEVENT', `DTSTART:${utc(remap.window.start)}`, `DTEND:${utc(remap.window.end)}`, 'END:VCALENDAR']) {
+        assert(unfolded.split('\r\n').includes(line), `the calendar file lacks the line “${line}”:\n${ics}`);
+      }
+      for (const name of ['PRODID', 'UID', 'DTSTAMP']) assert(new RegExp(`^${name}[:;]`, 'm').test(unfolded), `the calendar file lacks ${name}`);
+      assert(unfolded.includes(`R-${shared.remap.number}`), 'the calendar file does not name the request');
 
       // The calendar, from the main navigation: the month holding the window, then its week.
       await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Remaps' }).click();

@@ -121,6 +121,7 @@ export const tests = [
       const token = await page.request.post(`${baseUrl}/api/sites/${siteId}/robots/${robot.id}/tokens`, { data: { label: 'docking browser test' }, headers });
       assert(token.status() === 201, `creating a robot token answered ${token.status()}`);
       const { secret } = await token.json();
+      assert(typeof secret === 'string' && secret.length > 16, 'the new robot token has no secret');
       const line = JSON.stringify({ t: new Date(Date.now() - 60_000).toISOString(), station: drifting, dx: 0.0191, dy: -0.0042, dyaw: 0.0021 });
       const posted = await page.request.post(`${baseUrl}/api/ingest/docking`, { data: line, headers: { Authorization: `Bearer ${secret}`, 'Content-Type': 'application/x-ndjson', 'Idempotency-Key': `browser-${Date.now()}` } });
       const receipt = await posted.json();
@@ -130,6 +131,10 @@ export const tests = [
       await page.locator('.docking-chart__bar').waitFor();
       assert((await countText()) === before + 1, `the station shows ${await countText()} dockings after the post, not ${before + 1}`);
       assert((await page.locator('[data-verdict-sentence]').innerText()).startsWith('Moved about'), 'the station is no longer flagged after one more far-off docking');
+      // Leave the demo robot as it was: the test's token is revoked.
+      const tokenId = (await token.json()).token.id;
+      const revoked = await page.request.delete(`${baseUrl}/api/sites/${siteId}/robots/${robot.id}/tokens/${tokenId}`, { headers });
+      assert(revoked.status() === 204, `revoking the test's robot token answered ${revoked.status()}`);
     },
   },
 ];

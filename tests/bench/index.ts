@@ -1,4 +1,4 @@
-// Runs every benchmark in turn (`npm run bench`). Each bench module exports run(), which prints
+// Runs every benchmark in turn (`npm run bench`), or those named after `--`. Each bench module exports run(), which prints
 // its figures; append new benches to the list.
 import { run as traverse } from './traverse.bench.js';
 import { run as simulate } from './simulate.bench.js';
@@ -18,7 +18,10 @@ benches.push(['detect', detect]);
 benches.push(['bundle', bundle]);
 benches.push(['map diff', mapDiff]);
 
+// `npm run bench -- tiles bundle` runs only the benches whose names contain one of the words.
+const only = process.argv.slice(2);
 for (const [name, run] of benches) {
+  if (only.length > 0 && !only.some((word) => name.includes(word))) continue;
   console.log(`\n== ${name} ==`);
   await run();
 }

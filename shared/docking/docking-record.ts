@@ -3,6 +3,7 @@
  * the robot came to rest against a docking station, relative to the station model's nominal
  * docking pose, in the station model's frame.
  */
+import { readIsoTime } from '../scan/iso-time.js';
 import { DEFAULT_MAX_FUTURE_MS } from '../scan/scan-record.js';
 
 /** A docking result: time, station name, and the final offset (metres, radians). */
@@ -41,29 +42,10 @@ export interface DockingLineContext {
 /** Result of parsing one line: the record, or a readable reason for refusing it. */
 export type DockingLineResult = { ok: true; record: DockingRecord } | { ok: false; reason: string };
 
-// ISO 8601 date-time with an explicit zone: a zoneless time would be read in the server's zone.
-const ISO_WITH_ZONE = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2})(?:\.\d+)?)?(?:Z|[+-](\d{2}):(\d{2}))$/;
-
-function isRealDateTime(m: RegExpExecArray): boolean {
-  const [y, mo, d, h, mi] = [1, 2, 3, 4, 5].map((k) => Number(m[k]));
-  const sec = m[6] === undefined ? 0 : Number(m[6]);
-  // Date.parse accepts 30 February; the calendar check does not.
-  const daysInMonth = new Date(Date.UTC(y, mo, 0)).getUTCDate();
-  const zoneOk = m[7] === undefined || (Number(m[7]) <= 23 && Number(m[8]) <= 59);
-  return mo >= 1 && mo <= 12 && d >= 1 && d <= daysInMonth && h <= 23 && mi <= 59 && sec <= 59 && zoneOk;
-}
-
 function readTime(obj: Record<string, unknown>, ctx: DockingLineContext): [string, number] | string {
   if (!('t' in obj)) return 'The docking has no "t" field.';
-  const t = obj.t;
-  const m = typeof t === 'string' ? ISO_WITH_ZONE.exec(t) : null;
-  if (typeof t !== 'string' || m === null) return 'The docking\'s "t" must be an ISO 8601 timestamp with a time zone, like 2026-11-03T08:15:02.120Z.';
-  const ms = Date.parse(t);
-  if (!isRealDateTime(m) || !Number.isFinite(ms)) return `The docking's "t" (${t}) is not a real date and time.`;
-  const ahead = ms - ctx.now.getTime();
-  const limit = ctx.maxFutureMs ?? DEFAULT_MAX_FUTURE_MS;
-  if (ahead > limit) return `The docking's "t" (${t}) lies ${Math.round(ahead / 1000)} s in the future; at most ${Math.round(limit / 1000)} s are allowed.`;
-  return [t, ms];
+  const time = readIsoTime(obj.t, 'The docking\'s "t"', ctx.now, ctx.maxFutureMs ?? DEFAULT_MAX_FUTURE_MS);
+  return time.ok ? [time.t, time.ms] : time.reason;
 }
 
 function readOffset(obj: Record<string, unknown>, name: 'dx' | 'dy' | 'dyaw'): number | string {

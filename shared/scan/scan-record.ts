@@ -1,3 +1,5 @@
+import { readIsoTime } from './iso-time.js';
+
 /**
  * One laser scan as a robot reports it (one line of a JSON Lines scan log, DESIGN §4.2).
  * Memory: 8 bytes per beam for `ranges` plus a few fields.
@@ -42,18 +44,6 @@ export const DEFAULT_MAX_FUTURE_MS = 5 * 60 * 1000;
 /** Default most beams per scan; common scanners give a few hundred to a few thousand. A product choice. */
 export const DEFAULT_MAX_BEAMS = 10_000;
 
-// ISO 8601 date-time with an explicit zone: a zoneless time would be read in the server's zone.
-const ISO_WITH_ZONE = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2})(?:\.\d+)?)?(?:Z|[+-](\d{2}):(\d{2}))$/;
-
-/** True when the captured fields form a real calendar date and clock time (Date.parse accepts 30 February). */
-function isRealDateTime(m: RegExpExecArray): boolean {
-  const [y, mo, d, h, mi] = [1, 2, 3, 4, 5].map((k) => Number(m[k]));
-  const sec = m[6] === undefined ? 0 : Number(m[6]);
-  const daysInMonth = new Date(Date.UTC(y, mo, 0)).getUTCDate();
-  const zoneOk = m[7] === undefined || (Number(m[7]) <= 23 && Number(m[8]) <= 59);
-  return mo >= 1 && mo <= 12 && d >= 1 && d <= daysInMonth && h <= 23 && mi <= 59 && sec <= 59 && zoneOk;
-}
-
 /** Thrown inside parseScanLine to leave with a reason; never escapes it. */
 class Refusal {
   constructor(readonly reason: string) {}
@@ -93,19 +83,9 @@ function readPose(obj: Record<string, unknown>): [number, number, number] {
 }
 
 function readTime(obj: Record<string, unknown>, ctx: ScanLineContext): [string, number] {
-  const t = field(obj, 't');
-  const m = typeof t === 'string' ? ISO_WITH_ZONE.exec(t) : null;
-  if (typeof t !== 'string' || m === null) {
-    refuse('The scan\'s "t" must be an ISO 8601 timestamp with a time zone, like 2026-11-03T08:15:02.120Z.');
-  }
-  const ms = Date.parse(t);
-  if (!isRealDateTime(m) || !Number.isFinite(ms)) refuse(`The scan's "t" (${t}) is not a real date and time.`);
-  const ahead = ms - ctx.now.getTime();
-  const limit = ctx.maxFutureMs ?? DEFAULT_MAX_FUTURE_MS;
-  if (ahead > limit) {
-    refuse(`The scan's "t" (${t}) lies ${Math.round(ahead / 1000)} s in the future; at most ${Math.round(limit / 1000)} s are allowed.`);
-  }
-  return [t, ms];
+  const time = readIsoTime(field(obj, 't'), 'The scan\'s "t"', ctx.now, ctx.maxFutureMs ?? DEFAULT_MAX_FUTURE_MS);
+  if (!time.ok) refuse(time.reason);
+  return [time.t, time.ms];
 }
 
 function readRanges(obj: Record<string, unknown>, maxBeams: number): Float64Array {

@@ -3,7 +3,7 @@
 // (the demo knocks it five days before its last day), opens it and sees the verdict with its test,
 // the chart of offsets against the tolerance band, and the station model drawn at 5 mm per cell.
 // Then a robot posts a docking with its token and the station's count grows by one.
-import { accounts, assert, expectText, signIn } from './helpers.mjs';
+import { accounts, assert, expectText, openSite, openTab, sameOrigin, signIn, watchRequests } from './helpers.mjs';
 
 const site = 'Fennick Cross DC';
 const drifting = 'Charger bay 2';
@@ -34,14 +34,10 @@ export const tests = [
     async run({ page, baseUrl, screenshot }) {
       await signIn(page, baseUrl, accounts.siteManager);
       const siteId = await waitForStations(page, baseUrl);
-      const refused = [];
-      page.on('response', (r) => {
-        if (r.status() >= 400 && new URL(r.url()).pathname.startsWith('/api/')) refused.push(`${r.status()} ${r.url()}`);
-      });
+      const watch = watchRequests(page);
 
       // The tab, from the site's page.
-      await page.getByRole('link', { name: site }).first().click();
-      await page.getByRole('heading', { level: 1, name: site }).waitFor();
+      await openSite(page, site);
       // The site's overview counts the drifting stations and names the one.
       const card = page.locator('[data-card="docking"]');
       await card.getByText('of 3 stations drifting').waitFor();
@@ -49,7 +45,7 @@ export const tests = [
       assert(cardText.includes('1 of 3 stations drifting') && cardText.includes(`${drifting} drifting Moved about`), `the overview's docking card reads “${cardText}”`);
       await card.scrollIntoViewIfNeeded();
       await screenshot('docking-overview.png', { fullPage: false });
-      await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: 'Docking', exact: true }).click();
+      await openTab(page, 'Docking');
       const table = page.getByRole('table', { name: 'Docking stations' });
       await table.waitFor();
       await expectText(page, '1 of 3 stations drifting');
@@ -110,14 +106,14 @@ export const tests = [
         await page.locator('section[aria-labelledby="station-chart-title"]').screenshot({ path: new URL(`./screenshots/${file}`, import.meta.url).pathname, animations: 'disabled' });
       }
       await page.getByRole('button', { name: 'Position error' }).click();
-      assert(refused.length === 0, `API calls were refused: ${refused.join(', ')}`);
+      assert(watch.refused.length === 0, `API calls were refused: ${watch.refused.join(', ')}`);
 
       // A robot posts one more docking with its own token: the station's page counts it.
       const countText = async () => Number(/^(\d+) dockings in 28 days/.exec((await page.locator('.docking-chart__bar .dl-muted').innerText()).trim())?.[1]);
       const before = await countText();
       const robots = (await (await page.request.get(`${baseUrl}/api/sites/${siteId}/robots`)).json()).robots;
       const robot = robots.find((r) => r.name === 'AMR-01');
-      const headers = { Origin: baseUrl, 'Sec-Fetch-Site': 'same-origin' };
+      const headers = sameOrigin(baseUrl);
       const token = await page.request.post(`${baseUrl}/api/sites/${siteId}/robots/${robot.id}/tokens`, { data: { label: 'docking browser test' }, headers });
       assert(token.status() === 201, `creating a robot token answered ${token.status()}`);
       const { secret } = await token.json();

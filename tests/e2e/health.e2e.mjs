@@ -3,61 +3,16 @@
 // dismiss, the robots tab's scanner flag (the demo turns AMR-02's front scanner at Fennick Cross
 // by 1.4° on purpose) and the admin's job runs. The demo loads its scans in the background after
 // the first start, then runs detection for every site; the first test waits for that.
-import { accounts, assert, expectText, signIn } from './helpers.mjs';
+import { accounts, apiSignIn, assert, expectText, openSite, openTab, signIn, waitForDetection } from './helpers.mjs';
 
-const mapper = { email: 'tomas.mapper@kestrelway.example', password: 'demo-mapper-2026' };
 const flaggedSite = 'Fennick Cross DC';
-
-/** Signs in through the API (same-origin, so the session cookie lands in the browser context). */
-async function apiSignIn(page, baseUrl, account) {
-  const response = await page.request.post(`${baseUrl}/api/auth/sign-in`, {
-    data: account,
-    headers: { Origin: baseUrl, 'Sec-Fetch-Site': 'same-origin' },
-  });
-  assert(response.ok(), `signing in as ${account.email} through the API answered ${response.status()}`);
-}
-
-/**
- * Waits until the demo is seeded and every site has a succeeded detection run. Generous: seeding
- * five sites' simulated scans takes 1–3 minutes on a shared two-core machine, detection a few seconds per site.
- */
-async function waitForDetection(page, baseUrl) {
-  const deadline = Date.now() + 6 * 60_000;
-  let last = 'no answer yet';
-  while (Date.now() < deadline) {
-    const health = await (await page.request.get(`${baseUrl}/api/health`)).json();
-    if (health.demo?.state === 'failed') throw new Error('the demo seeding failed (GET /api/health says demo.state "failed")');
-    if (health.demo?.state === 'ready') {
-      const sites = (await (await page.request.get(`${baseUrl}/api/sites`)).json()).sites;
-      const runs = (await (await page.request.get(`${baseUrl}/api/job-runs?job=detection&limit=200`)).json()).runs;
-      const done = new Set(runs.filter((r) => r.status === 'succeeded').map((r) => r.siteId));
-      const missing = sites.filter((s) => !done.has(s.id)).map((s) => s.name);
-      if (missing.length === 0) return;
-      last = `detection still to run for ${missing.join(', ')}`;
-    } else {
-      last = `demo ${health.demo?.state ?? 'unknown'}, ${health.demo?.sitesDone ?? 0} of ${health.demo?.sitesTotal ?? '?'} sites loaded`;
-    }
-    await page.waitForTimeout(3000);
-  }
-  throw new Error(`the demo's detection did not finish within 6 minutes (${last})`);
-}
-
-/** Opens a site's tab from the fleet overview. */
-async function openSite(page, name) {
-  await page.getByRole('link', { name }).first().click();
-  await page.getByRole('heading', { level: 1, name }).waitFor();
-}
-
-async function openTab(page, label) {
-  await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: label }).click();
-}
 
 export const tests = [
   {
     name: 'when the demo has loaded and detection ran, then the overview shows every site’s score, band and open zones',
     async run({ page, baseUrl, screenshot }) {
       await apiSignIn(page, baseUrl, accounts.admin);
-      await waitForDetection(page, baseUrl);
+      await waitForDetection(page.request, baseUrl);
       await page.context().clearCookies();
 
       await signIn(page, baseUrl, accounts.siteManager);
@@ -174,7 +129,7 @@ export const tests = [
   {
     name: 'when a mapper filters the overview to “remap advised” and dismisses a zone as a volatile area, then it shows as dismissed',
     async run({ page, baseUrl }) {
-      await signIn(page, baseUrl, mapper);
+      await signIn(page, baseUrl, accounts.mapper);
       await page.getByRole('combobox', { name: 'Filter by health band' }).click();
       await page.getByRole('option', { name: 'remap advised' }).click();
       const table = page.getByRole('table', { name: 'Sites' });

@@ -4,87 +4,9 @@
 // difference, and rolled back, so the demo's active map is the same again for the tests after it.
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import pngjs from 'pngjs';
-import { accounts, assert, expectText, signIn } from './helpers.mjs';
+import { FREE, OCCUPIED, UNKNOWN, accounts, apiSignIn, assert, cellsOf, expectText, getJson, openSite, openTab, pgmOf, signIn, waitForDetection } from './helpers.mjs';
 
-const { PNG } = pngjs;
 const screenshotDir = path.join(path.dirname(fileURLToPath(import.meta.url)), 'screenshots');
-
-/** The seeded demo mapper (an invented person at a .example domain). */
-const mapper = { email: 'tomas.mapper@kestrelway.example', password: 'demo-mapper-2026' };
-
-const FREE = 0;
-const OCCUPIED = 1;
-const UNKNOWN = 2;
-// The preview's palette (DESIGN.md §5: free #f6f3ea, structure #1e2a3f, unknown #d5dae3) back to cell states.
-const STATE_OF_RGB = new Map([
-  [0xf6f3ea, FREE],
-  [0x1e2a3f, OCCUPIED],
-  [0xd5dae3, UNKNOWN],
-]);
-// Grey values of the PGM + YAML map convention with the default thresholds (from memory): p = (255 − v) / 255,
-// occupied above 0.65, free below 0.196; 205 reads as p ≈ 0.196, between them: unknown.
-const GREY_OF_STATE = [254, 0, 205];
-
-async function getJson(page, url) {
-  const response = await page.request.get(url);
-  assert(response.ok(), `GET ${url} answered ${response.status()}`);
-  return response.json();
-}
-
-/** Signs in through the API (same-origin, so the session cookie lands in the browser context). */
-async function apiSignIn(page, baseUrl, account) {
-  const response = await page.request.post(`${baseUrl}/api/auth/sign-in`, { data: account, headers: { Origin: baseUrl, 'Sec-Fetch-Site': 'same-origin' } });
-  assert(response.ok(), `signing in as ${account.email} through the API answered ${response.status()}`);
-}
-
-/**
- * Waits until the demo is seeded and every site's detection ran (as health.e2e.mjs does), so that no
- * seeded scan and no detection run meets the new version while it is briefly the active map.
- */
-async function waitForDemo(page, baseUrl) {
-  const deadline = Date.now() + 6 * 60_000;
-  let last = 'no answer yet';
-  while (Date.now() < deadline) {
-    // While the demo loads, the busy server may answer late: a slow answer is "not ready yet", not a failure.
-    const health = await getJson(page, `${baseUrl}/api/health`).catch((error) => ({ demo: { state: 'busy' }, error }));
-    if (health.error) {
-      last = `the server answered slowly (${health.error.message.split('\n')[0]})`;
-      continue;
-    }
-    if (health.demo?.state === 'failed') throw new Error('the demo seeding failed (GET /api/health says demo.state "failed")');
-    if (health.demo?.state === 'ready' || health.demo?.state === 'none') {
-      const { sites } = await getJson(page, `${baseUrl}/api/sites`);
-      const { runs } = await getJson(page, `${baseUrl}/api/job-runs?job=detection&limit=200`);
-      const done = new Set(runs.filter((r) => r.status === 'succeeded').map((r) => r.siteId));
-      const missing = sites.filter((s) => !done.has(s.id)).map((s) => s.name);
-      if (missing.length === 0) return;
-      last = `detection still to run for ${missing.join(', ')}`;
-    } else {
-      last = `demo ${health.demo?.state ?? 'unknown'}, ${health.demo?.sitesDone ?? 0} of ${health.demo?.sitesTotal ?? '?'} sites loaded`;
-    }
-    await page.waitForTimeout(3000);
-  }
-  throw new Error(`the demo was not ready within 6 minutes (${last})`);
-}
-
-/** Reads a version's cell states from its full-size preview (one pixel per cell up to 2048 cells a side), row j from the bottom. */
-async function cellsOf(page, baseUrl, siteId, version) {
-  const response = await page.request.get(`${baseUrl}/api/sites/${siteId}/map-versions/${version.id}/preview.png?size=2048`);
-  assert(response.ok(), `the preview of version ${version.version} answered ${response.status()}`);
-  const png = PNG.sync.read(await response.body());
-  assert(png.width === version.width && png.height === version.height, `the preview is ${png.width} × ${png.height} px, not one pixel per cell of ${version.width} × ${version.height}`);
-  const cells = new Uint8Array(version.width * version.height);
-  for (let row = 0; row < png.height; row++) {
-    for (let i = 0; i < png.width; i++) {
-      const o = (row * png.width + i) * 4;
-      const state = STATE_OF_RGB.get((png.data[o] << 16) | (png.data[o + 1] << 8) | png.data[o + 2]);
-      assert(state !== undefined, `preview pixel (${i}, ${row}) is not a map colour`);
-      cells[(png.height - 1 - row) * png.width + i] = state;
-    }
-  }
-  return cells;
-}
 
 /** Returns the lower-left cell of the first w × h window (scanned from the map's middle outwards, in steps) that `fits`, or null. */
 function findWindow(width, height, w, h, fits) {
@@ -151,14 +73,6 @@ function expectedCounts(base, other) {
   return n;
 }
 
-/** A P5 PGM (Netpbm, maxval 255, top row first; from memory) of cell states, row j from the bottom. */
-function pgmOf(cells, width, height) {
-  const header = Buffer.from(`P5\n${width} ${height}\n255\n`, 'ascii');
-  const pixels = Buffer.alloc(width * height);
-  for (let j = 0; j < height; j++) for (let i = 0; i < width; i++) pixels[(height - 1 - j) * width + i] = GREY_OF_STATE[cells[j * width + i]];
-  return Buffer.concat([header, pixels]);
-}
-
 const cellWords = (n) => `${n.toLocaleString('en-GB')} ${n === 1 ? 'cell' : 'cells'}`;
 
 /** Checks that a figures list shows the four expected cell counts. */
@@ -173,16 +87,17 @@ export const tests = [
   {
     name: 'when the mapper uploads a remapped version, then its difference to the active map shows in m² and as an overlay; activating shows it again, and rolling back restores the active map',
     async run({ page, baseUrl, screenshot }) {
+      // Demo seeded and detection done first, so that no seeded scan and no detection run meets the new version while it is briefly the active map.
       await apiSignIn(page, baseUrl, accounts.admin);
-      await waitForDemo(page, baseUrl);
+      await waitForDetection(page.request, baseUrl);
       await page.context().clearCookies();
-      await signIn(page, baseUrl, mapper);
+      await signIn(page, baseUrl, accounts.mapper);
 
-      const { sites } = await getJson(page, `${baseUrl}/api/sites`);
+      const { sites } = await getJson(page.request, `${baseUrl}/api/sites`);
       let site = null;
       let active = null;
       for (const s of sites) {
-        const { mapVersions } = await getJson(page, `${baseUrl}/api/sites/${s.id}/map-versions`);
+        const { mapVersions } = await getJson(page.request, `${baseUrl}/api/sites/${s.id}/map-versions`);
         active = mapVersions.find((v) => v.kind === 'floor' && v.status === 'active');
         if (active) {
           site = s;
@@ -190,20 +105,19 @@ export const tests = [
         }
       }
       assert(site && active, 'no demo site has an active floor map');
-      const before = (await getJson(page, `${baseUrl}/api/sites/${site.id}/map-versions`)).mapVersions;
+      const before = (await getJson(page.request, `${baseUrl}/api/sites/${site.id}/map-versions`)).mapVersions;
       const nextVersion = Math.max(...before.filter((v) => v.kind === 'floor').map((v) => v.version)) + 1;
 
       // The new version: the active map's cells with known edits, in the active map's geometry.
-      const base = await cellsOf(page, baseUrl, site.id, active);
+      const base = await cellsOf(page.request, baseUrl, site.id, active);
       const { cells, rack } = editedCells(base, active.width, active.height);
       const expected = expectedCounts(base, cells);
       assert(expected.added >= 960 && expected.removed > 0 && expected.hidden >= 900, `the edits should change the map: ${JSON.stringify(expected)}`);
       const image = `e2e-remap-${Date.now()}.pgm`;
       const yaml = [`image: ${image}`, `resolution: ${active.resolution}`, `origin: [${active.origin.x}, ${active.origin.y}, ${active.origin.yaw}]`, 'negate: 0', 'occupied_thresh: 0.65', 'free_thresh: 0.196', 'mode: trinary', ''].join('\n');
 
-      await page.getByRole('link', { name: site.name }).first().click();
-      await page.getByRole('heading', { level: 1, name: site.name }).waitFor();
-      await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: 'Map versions' }).click();
+      await openSite(page, site.name);
+      await openTab(page, 'Map versions');
       await page.getByRole('table', { name: 'Map versions' }).waitFor();
 
       const diffTiles = [];
@@ -295,7 +209,7 @@ export const tests = [
       await rollBack.waitFor({ state: 'detached' });
       await expectText(page, `Rolled back to version ${active.version}`);
 
-      const after = (await getJson(page, `${baseUrl}/api/sites/${site.id}/map-versions`)).mapVersions;
+      const after = (await getJson(page.request, `${baseUrl}/api/sites/${site.id}/map-versions`)).mapVersions;
       const status = (version) => after.find((v) => v.kind === 'floor' && v.version === version)?.status;
       assert(status(active.version) === 'active', `version ${active.version} should be active again, it is ${status(active.version)}`);
       assert(status(nextVersion) === 'archived', `version ${nextVersion} should be archived, it is ${status(nextVersion)}`);

@@ -1,9 +1,6 @@
 // Browser tests of the Map versions and Scan logs pages, as the demo mapper: map uploads with
 // progress, a refused metadata pair, and a recorded scan log with one broken line.
-import { assert, expectText, signIn } from './helpers.mjs';
-
-/** The seeded demo mapper (an invented person at a .example domain). */
-const mapper = { email: 'tomas.mapper@kestrelway.example', password: 'demo-mapper-2026' };
+import { accounts, assert, expectText, getJson, openSite, openTab, signIn } from './helpers.mjs';
 
 /**
  * A binary PGM (Netpbm P5, maxval 255) of a small invented hall: dark outer walls and three rack
@@ -42,12 +39,6 @@ async function throttleUploads(context, page, bytesPerSecond) {
   };
 }
 
-async function getJson(page, url) {
-  const response = await page.request.get(url);
-  assert(response.ok(), `GET ${url} answered ${response.status()}`);
-  return response.json();
-}
-
 /**
  * Returns a site whose active floor map is in place. The demo loads its maps and scans in the
  * background while the server already answers, so the test waits for one site to be ready
@@ -56,9 +47,9 @@ async function getJson(page, url) {
 async function siteWithActiveMap(page, baseUrl, timeoutMs = 180_000) {
   const deadline = Date.now() + timeoutMs;
   for (;;) {
-    const { sites } = await getJson(page, `${baseUrl}/api/sites`);
+    const { sites } = await getJson(page.request, `${baseUrl}/api/sites`);
     for (const site of sites) {
-      const { mapVersions } = await getJson(page, `${baseUrl}/api/sites/${site.id}/map-versions`);
+      const { mapVersions } = await getJson(page.request, `${baseUrl}/api/sites/${site.id}/map-versions`);
       if (mapVersions.some((v) => v.kind === 'floor' && v.status === 'active')) return site;
     }
     assert(Date.now() < deadline, `no demo site had an active floor map within ${timeoutMs / 1000} s`);
@@ -68,11 +59,10 @@ async function siteWithActiveMap(page, baseUrl, timeoutMs = 180_000) {
 
 /** Signs in as the mapper and opens a ready demo site on the given tab; returns the site's id. */
 async function openSiteTab(page, baseUrl, tab) {
-  await signIn(page, baseUrl, mapper);
+  await signIn(page, baseUrl, accounts.mapper);
   const site = await siteWithActiveMap(page, baseUrl);
-  await page.getByRole('link', { name: site.name }).first().click();
-  await page.getByRole('heading', { level: 1, name: site.name }).waitFor();
-  await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: tab }).click();
+  await openSite(page, site.name);
+  await openTab(page, tab);
   return site.id;
 }
 
@@ -82,7 +72,7 @@ export const tests = [
     async run({ page, context, baseUrl, screenshot }) {
       const siteId = await openSiteTab(page, baseUrl, 'Map versions');
       await page.getByRole('table', { name: 'Map versions' }).waitFor();
-      const before = (await getJson(page, `${baseUrl}/api/sites/${siteId}/map-versions`)).mapVersions;
+      const before = (await getJson(page.request, `${baseUrl}/api/sites/${siteId}/map-versions`)).mapVersions;
       const nextVersion = Math.max(0, ...before.filter((v) => v.kind === 'floor').map((v) => v.version)) + 1;
 
       const [width, height] = [800, 600];
@@ -116,7 +106,7 @@ export const tests = [
       await page.getByRole('button', { name: 'Upload as draft' }).click();
       await expectText(page, 'The map metadata names the image "e2e-hall-a.pgm" but the uploaded image is "e2e-hall-b.pgm".');
       await expectText(page, 'The map was not stored.');
-      const after = (await getJson(page, `${baseUrl}/api/sites/${siteId}/map-versions`)).mapVersions;
+      const after = (await getJson(page.request, `${baseUrl}/api/sites/${siteId}/map-versions`)).mapVersions;
       assert(after.length === before.length + 1, `expected ${before.length + 1} versions after one good and one refused upload, found ${after.length}`);
       await page.locator('.p-toast-message').first().waitFor({ state: 'detached', timeout: 10_000 }).catch(() => {});
       await screenshot('maps.png');
@@ -126,8 +116,8 @@ export const tests = [
     name: 'when the mapper uploads a scan log with one broken line, then the batch is counted and the broken line is listed with its reason',
     async run({ page, baseUrl, screenshot }) {
       const siteId = await openSiteTab(page, baseUrl, 'Scan logs');
-      const { robots } = await getJson(page, `${baseUrl}/api/sites/${siteId}/robots`);
-      const { mapVersions } = await getJson(page, `${baseUrl}/api/sites/${siteId}/map-versions`);
+      const { robots } = await getJson(page.request, `${baseUrl}/api/sites/${siteId}/robots`);
+      const { mapVersions } = await getJson(page.request, `${baseUrl}/api/sites/${siteId}/map-versions`);
       const robot = robots[0];
       const map = mapVersions.find((v) => v.kind === 'floor' && v.status === 'active');
       assert(robot && map, 'the demo site needs a robot and an active floor map for this test');

@@ -7,38 +7,13 @@
 // after a recorded log of three days that agrees with the new map it is verified.
 import { readFileSync } from 'node:fs';
 import { request } from 'playwright-core';
-import pngjs from 'pngjs';
-import { accounts, assert, expectText, signIn } from './helpers.mjs';
+import { FREE, OCCUPIED, accounts, assert, cellsOf, expectText, getJson, openSite, openTab, pgmOf, sameOrigin, signIn, waitForDetection } from './helpers.mjs';
 
-const { PNG } = pngjs;
-
-/** The seeded demo mapper (an invented person at a .example domain). */
-const mapper = { email: 'tomas.mapper@kestrelway.example', password: 'demo-mapper-2026' };
 /** An Ambergate site, so that the demo's Ambergate site manager approves. */
 const siteName = 'Tarrow Heath Cold Store';
 /** The colleague the mapper assigns: the demo admin (admins may drive remaps too). */
 const colleague = 'Iris Achterberg';
 const title = 'Fence line along the cold store (browser test)';
-
-const FREE = 0;
-const OCCUPIED = 1;
-const UNKNOWN = 2;
-// The preview's palette (DESIGN.md §5: free #f6f3ea, structure #1e2a3f, unknown #d5dae3) back to cell states.
-const STATE_OF_RGB = new Map([
-  [0xf6f3ea, FREE],
-  [0x1e2a3f, OCCUPIED],
-  [0xd5dae3, UNKNOWN],
-]);
-// Grey values of the PGM + YAML map convention with the default thresholds (from memory): p = (255 − v) / 255,
-// occupied above 0.65, free below 0.196; 205 reads as p ≈ 0.196, between them: unknown.
-const GREY_OF_STATE = [254, 0, 205];
-const sameOrigin = (baseUrl) => ({ Origin: baseUrl, 'Sec-Fetch-Site': 'same-origin' });
-
-async function getJson(api, url) {
-  const response = await api.get(url);
-  assert(response.ok(), `GET ${url} answered ${response.status()}`);
-  return response.json();
-}
 
 async function postJson(api, baseUrl, url, data) {
   const response = await api.post(url, { data, headers: sameOrigin(baseUrl) });
@@ -54,57 +29,16 @@ async function apiAs(baseUrl, account) {
   return api;
 }
 
-/** Waits until the demo is seeded and every site's detection ran (as health.e2e.mjs does; generous on a shared machine). */
-async function waitForDemo(admin) {
-  const deadline = Date.now() + 6 * 60_000;
-  let last = 'no answer yet';
-  while (Date.now() < deadline) {
-    const health = await getJson(admin, '/api/health');
-    if (health.demo?.state === 'failed') throw new Error('the demo seeding failed (GET /api/health says demo.state "failed")');
-    if (health.demo?.state === 'ready') {
-      const { sites } = await getJson(admin, '/api/sites');
-      const { runs } = await getJson(admin, '/api/job-runs?job=detection&limit=200');
-      const done = new Set(runs.filter((r) => r.status === 'succeeded').map((r) => r.siteId));
-      const missing = sites.filter((s) => !done.has(s.id)).map((s) => s.name);
-      if (missing.length === 0) return sites;
-      last = `detection still to run for ${missing.join(', ')}`;
-    } else {
-      last = `demo ${health.demo?.state ?? 'unknown'}, ${health.demo?.sitesDone ?? 0} of ${health.demo?.sitesTotal ?? '?'} sites loaded`;
-    }
-    await new Promise((resolve) => setTimeout(resolve, 3000));
-  }
-  throw new Error(`the demo was not ready within 6 minutes (${last})`);
-}
-
-/** Opens a site's tab from the fleet overview. */
+/** Opens the test's site on the tab `tab` from the fleet overview. */
 async function openSiteTab(page, tab) {
-  await page.getByRole('link', { name: siteName }).first().click();
-  await page.getByRole('heading', { level: 1, name: siteName }).waitFor();
-  await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: tab, exact: true }).click();
+  await openSite(page, siteName);
+  await openTab(page, tab);
 }
 
 /** Opens the request made by the first test, by its address. */
 async function openRequest(page, baseUrl, remap) {
   await page.goto(`${baseUrl}/sites/${remap.siteId}/remaps/${remap.id}`);
   await page.getByRole('heading', { level: 2, name: title }).waitFor();
-}
-
-/** Reads a version's cell states from its full-size preview (one pixel per cell up to 2048 cells a side), row j from the bottom. */
-async function cellsOf(api, baseUrl, siteId, version) {
-  const response = await api.get(`${baseUrl}/api/sites/${siteId}/map-versions/${version.id}/preview.png?size=2048`);
-  assert(response.ok(), `the preview of version ${version.version} answered ${response.status()}`);
-  const png = PNG.sync.read(await response.body());
-  assert(png.width === version.width && png.height === version.height, `the preview is ${png.width} × ${png.height} px, not one pixel per cell`);
-  const cells = new Uint8Array(version.width * version.height);
-  for (let row = 0; row < png.height; row++) {
-    for (let i = 0; i < png.width; i++) {
-      const o = (row * png.width + i) * 4;
-      const state = STATE_OF_RGB.get((png.data[o] << 16) | (png.data[o + 1] << 8) | png.data[o + 2]);
-      assert(state !== undefined, `preview pixel (${i}, ${row}) is not a map colour`);
-      cells[(png.height - 1 - row) * png.width + i] = state;
-    }
-  }
-  return cells;
 }
 
 /** True when point (x, y) lies inside the polygon (even–odd rule, ray to +x). */
@@ -145,14 +79,6 @@ function remappedCells(base, version, zones) {
     }
   }
   return { cells, changed };
-}
-
-/** A P5 PGM (Netpbm, maxval 255, top row first; from memory) of cell states, row j from the bottom. */
-function pgmOf(cells, width, height) {
-  const header = Buffer.from(`P5\n${width} ${height}\n255\n`, 'ascii');
-  const pixels = Buffer.alloc(width * height);
-  for (let j = 0; j < height; j++) for (let i = 0; i < width; i++) pixels[(height - 1 - j) * width + i] = GREY_OF_STATE[cells[j * width + i]];
-  return Buffer.concat([header, pixels]);
 }
 
 /**
@@ -238,12 +164,12 @@ export const tests = [
     name: 'when a mapper picks persistent zones in the zones table and plans a remap, then the request shows the area on the map, its estimate and three quiet windows, waiting for approval',
     async run({ page, baseUrl, shared, screenshot }) {
       const admin = await apiAs(baseUrl, accounts.admin);
-      const sites = await waitForDemo(admin);
+      const sites = await waitForDetection(admin, baseUrl);
       await admin.dispose();
       const site = sites.find((s) => s.name === siteName);
       assert(site, `the demo has no site “${siteName}”`);
 
-      await signIn(page, baseUrl, mapper);
+      await signIn(page, baseUrl, accounts.mapper);
       await openSiteTab(page, 'Zones');
       const table = page.getByRole('table', { name: 'Zones' });
       const rows = table.locator('tbody tr').filter({ hasText: 'persistent' }).filter({ has: page.getByText('open', { exact: true }) });
@@ -335,7 +261,7 @@ export const tests = [
       await page.getByText(/approved by Nadia Okonkwo-Hale/).waitFor();
 
       // The status filter narrows the list to what is asked for.
-      await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: 'Remaps', exact: true }).click();
+      await openTab(page, 'Remaps');
       await page.locator('#remap-filter-status').click();
       await page.getByRole('option', { name: 'verified', exact: true }).click();
       await expectText(page, 'No remap request is verified');
@@ -345,7 +271,7 @@ export const tests = [
     name: 'when the mapper schedules the request in the first quiet window with a colleague, then it shows the window in site time and appears on the month and week calendar',
     async run({ page, baseUrl, shared, screenshot }) {
       assert(shared.remap, 'the request of the first remaps test is missing');
-      await signIn(page, baseUrl, mapper);
+      await signIn(page, baseUrl, accounts.mapper);
       await openRequest(page, baseUrl, shared.remap);
       const { quietWindows } = await getJson(page.request, `${baseUrl}/api/sites/${shared.remap.siteId}/remaps/${shared.remap.id}/quiet-windows`);
       const first = quietWindows.windows.find((w) => w.rank === 1);
@@ -412,7 +338,7 @@ export const tests = [
     async run({ page, baseUrl, shared, screenshot }) {
       assert(shared.remap, 'the request of the first remaps test is missing');
       const { siteId } = shared.remap;
-      await signIn(page, baseUrl, mapper);
+      await signIn(page, baseUrl, accounts.mapper);
       await openRequest(page, baseUrl, shared.remap);
       const actions = page.getByRole('group', { name: 'Request actions' });
       await actions.getByRole('button', { name: 'Start the remap' }).click();

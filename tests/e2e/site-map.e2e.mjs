@@ -10,67 +10,17 @@
 // origin at (−1 m, −1 m), no yaw and 0.05 m cells, and marks a solid's outer ring of cells as
 // structure and its inside as unknown: across the column's centre the tiles show unknown, then a
 // structure ring 0.15–0.20 m out, then free floor.
-import { accounts, assert, expectText, signIn } from './helpers.mjs';
+import { accounts, apiSignIn, assert, expectText, openSite, openTab, signIn, waitForDetection, watchRequests } from './helpers.mjs';
 
 const site = 'Fennick Cross DC';
 const landmark = { name: 'pillar-12-7', x: 12, y: 7 };
 /** Side of a tile in pixels (shared/render/tiles.ts). */
 const TILE_SIZE = 256;
 
-/** Signs in through the API (same-origin, so the session cookie lands in the browser context). */
-async function apiSignIn(page, baseUrl, account) {
-  const response = await page.request.post(`${baseUrl}/api/auth/sign-in`, { data: account, headers: { Origin: baseUrl, 'Sec-Fetch-Site': 'same-origin' } });
-  assert(response.ok(), `signing in as ${account.email} through the API answered ${response.status()}`);
-}
-
-/** Waits until the demo is seeded and every site has a succeeded detection run (as health.e2e.mjs does; generous on a shared machine). */
-async function waitForDetection(page, baseUrl) {
-  const deadline = Date.now() + 6 * 60_000;
-  let last = 'no answer yet';
-  while (Date.now() < deadline) {
-    const health = await (await page.request.get(`${baseUrl}/api/health`)).json();
-    if (health.demo?.state === 'failed') throw new Error('the demo seeding failed (GET /api/health says demo.state "failed")');
-    if (health.demo?.state === 'ready' || health.demo?.state === 'none') {
-      const sites = (await (await page.request.get(`${baseUrl}/api/sites`)).json()).sites;
-      const runs = (await (await page.request.get(`${baseUrl}/api/job-runs?job=detection&limit=200`)).json()).runs;
-      const done = new Set(runs.filter((r) => r.status === 'succeeded').map((r) => r.siteId));
-      const missing = sites.filter((s) => !done.has(s.id)).map((s) => s.name);
-      if (missing.length === 0) return;
-      last = `detection still to run for ${missing.join(', ')}`;
-    } else {
-      last = `demo ${health.demo?.state ?? 'unknown'}, ${health.demo?.sitesDone ?? 0} of ${health.demo?.sitesTotal ?? '?'} sites loaded`;
-    }
-    await page.waitForTimeout(3000);
-  }
-  throw new Error(`the demo's detection did not finish within 6 minutes (${last})`);
-}
-
-/** Watches the page for failed requests and API answers of 400 and above; `stop()` ends the watch of failed requests. */
-function watchRequests(page) {
-  const failed = [];
-  const refused = [];
-  let watchingFailures = true;
-  page.on('requestfailed', (request) => {
-    if (watchingFailures) failed.push(`${request.url()} (${request.failure()?.errorText ?? 'failed'})`);
-  });
-  page.on('response', (response) => {
-    if (response.status() >= 400 && new URL(response.url()).pathname.startsWith('/api/')) refused.push(`${response.status()} ${response.url()}`);
-  });
-  return {
-    failed,
-    refused,
-    stopWatchingFailures: () => {
-      // Zooming later makes Leaflet abort tiles of the zoom it leaves: expected, so only the first load must have none.
-      watchingFailures = false;
-    },
-  };
-}
-
 /** Opens the site's Map tab from the fleet overview and waits for the grid tiles and the zones. */
 async function openMap(page) {
-  await page.getByRole('link', { name: site }).first().click();
-  await page.getByRole('heading', { level: 1, name: site }).waitFor();
-  await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: 'Map', exact: true }).click();
+  await openSite(page, site);
+  await openTab(page, 'Map');
   await page.locator('.map-canvas[data-tiles="ready"] img.leaflet-tile-loaded').first().waitFor({ timeout: 20_000 });
   await page.locator('.map-canvas[data-tiles="ready"]').waitFor({ timeout: 20_000 });
   await page.locator('path.dl-zone').first().waitFor({ timeout: 20_000 });
@@ -203,7 +153,7 @@ export const tests = [
     name: 'when a site manager opens the Map tab, then the grid tiles load with no failed request and the zones are drawn by kind',
     async run({ page, baseUrl, screenshot }) {
       await apiSignIn(page, baseUrl, accounts.admin);
-      await waitForDetection(page, baseUrl);
+      await waitForDetection(page.request, baseUrl);
       await page.context().clearCookies();
 
       await signIn(page, baseUrl, accounts.siteManager);
@@ -383,7 +333,7 @@ export const tests = [
       await signIn(page, baseUrl, accounts.siteManager);
       await page.route('**/api/sites/*/map-versions', (route) => route.fulfill({ status: 503, contentType: 'application/json', body: JSON.stringify({ error: { code: 'unavailable', message: 'The database is busy; please try again.' } }) }), { times: 1 });
       await page.getByRole('link', { name: site }).first().click();
-      await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: 'Map', exact: true }).click();
+      await openTab(page, 'Map');
       await expectText(page, 'The map could not be loaded');
       await expectText(page, 'The database is busy; please try again.');
       await page.getByRole('button', { name: 'Try again' }).click();
@@ -401,7 +351,7 @@ export const tests = [
       await signIn(page, baseUrl, accounts.admin);
       await page.route('**/api/sites/*/map-versions', (route) => route.fulfill({ status: 200, contentType: 'application/json', body: JSON.stringify({ mapVersions: [] }) }), { times: 1 });
       await page.getByRole('link', { name: site }).first().click();
-      await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: 'Map', exact: true }).click();
+      await openTab(page, 'Map');
       await expectText(page, 'Upload the grid map of the site’s mapping run and activate it');
       await page.getByRole('link', { name: 'Go to Map versions' }).click();
       await page.getByRole('table', { name: 'Map versions' }).waitFor();

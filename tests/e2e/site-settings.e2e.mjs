@@ -1,15 +1,15 @@
 // The site's Settings tab: admins change settings through a checked form; other roles read them.
 // The admin works on a site no other browser test looks at, so that changed bands do not move
 // what those tests expect.
-import { accounts, assert, expectText, signIn } from './helpers.mjs';
+import { accounts, assert, expectText, openSite, openTab, signIn } from './helpers.mjs';
 
 const editedSite = 'Quarrington Vale Returns';
 const viewedSite = 'Fennick Cross DC';
 
+/** Opens a site's Settings tab from the fleet overview and waits for the form. */
 async function openSettings(page, siteName) {
-  await page.getByRole('link', { name: siteName }).first().click();
-  await page.getByRole('heading', { level: 1, name: siteName }).waitFor();
-  await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: 'Settings' }).click();
+  await openSite(page, siteName);
+  await openTab(page, 'Settings');
   await page.getByRole('heading', { name: 'Nightly detection' }).waitFor();
 }
 
@@ -132,9 +132,9 @@ export const tests = [
       await screenshot('site-settings-viewer.png');
 
       // When loading the settings fails, the tab says so and “Try again” loads them.
-      await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: 'Overview' }).click();
+      await openTab(page, 'Overview');
       await page.route('**/api/sites/*/settings', (route) => route.fulfill({ status: 503, contentType: 'application/json', body: JSON.stringify({ error: { code: 'unavailable', message: 'The database is busy; please try again.' } }) }), { times: 1 });
-      await page.getByRole('navigation', { name: 'Site sections' }).getByRole('link', { name: 'Settings' }).click();
+      await openTab(page, 'Settings');
       await expectText(page, 'The settings could not be loaded');
       await expectText(page, 'The database is busy; please try again.');
       await page.getByRole('button', { name: 'Try again' }).click();

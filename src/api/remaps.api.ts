@@ -1,6 +1,7 @@
 import { appConfig } from '@/config';
 import { apiRequest } from './client';
 import type { ZoneKind, ZonePersistence, ZoneStatus } from './zones.api';
+import type { CoverageEstimate } from '../../shared/remap/coverage';
 
 export type RemapStatus = 'proposed' | 'scheduled' | 'in_progress' | 'map_uploaded' | 'verified' | 'not_fixed' | 'cancelled';
 export type RemapPriorityLabel = 'high' | 'medium' | 'low';
@@ -30,22 +31,10 @@ export interface RemapArea {
 }
 
 /**
- * The coverage estimate of a remap: area in m², sweep width in metres, drive speed in m/s, lane,
- * transit and drive lengths in metres, and minutes of driving, of setup overhead and in total.
+ * The coverage estimate of a remap as the API sends it (figures of shared/remap/coverage.ts, rounded
+ * for display: area in m², lengths in metres, minutes), with the window length it offers.
  */
-export interface RemapEstimate {
-  areaM2: number;
-  sweepWidthM: number;
-  driveSpeedMps: number;
-  /** Lanes over the area: area ÷ sweep width, metres. */
-  laneLengthM: number;
-  /** Driving between separate parts of the area (nearest-next through their centres), metres. */
-  transitM: number;
-  /** laneLengthM + transitM, metres. */
-  driveLengthM: number;
-  driveMinutes: number;
-  overheadMinutes: number;
-  totalMinutes: number;
+export interface RemapEstimate extends CoverageEstimate {
   /** totalMinutes rounded up: the default window length and the quiet windows' duration. */
   windowMinutes: number;
 }

@@ -6,7 +6,7 @@ import { scheduleJobs } from '../jobs/index.js';
 import { createApp } from './app.js';
 import { loadConfig } from './config.js';
 import { openDatabase } from './data-source.js';
-import { DEMO_DAYS, demoEvidencePending, seedDemoAccounts, seedDemoEvidence } from './services/demo-seed.service.js';
+import { DEMO_DAYS, demoEvidencePending, seedDemoAccounts, seedDemoEvidence, seedDemoRemap } from './services/demo-seed.service.js';
 
 // Entry point: config → data source → app → listen; graceful stop on SIGTERM/SIGINT.
 async function main() {
@@ -33,6 +33,7 @@ async function main() {
     seedDemoEvidence(dataSource, services, log, new Date(), DEMO_DAYS, services.demoSeed)
       // The demo should open with zones and flags, not wait for the first night.
       .then(() => services.jobRuns.detect('startup'))
+      .then(() => seedDemoRemap(dataSource, services, log))
       .catch((err) => {
         services.demoSeed.state = 'failed';
         log.error({ err }, 'the demo evidence could not be loaded');

@@ -175,3 +175,27 @@ export async function seedDemo(db: DataSource, services: Services | null, log: L
   if (services) await seedDemoEvidence(db, services, log, opts.today, opts.days);
   return true;
 }
+
+/** The demo's remap: Corvane's site manager asked for one at this site, and the mapping team has a window for it. */
+const DEMO_REMAP_SITE = 'Lowen Harbour Hub';
+
+/**
+ * After the first detection run: a remap request at Lowen Harbour Hub from its two most severe
+ * persistent zones, requested by Corvane's site manager and scheduled by the demo mapper in the
+ * quietest window of the coming days, so the overview, the calendar and the Remaps tab open with
+ * one. Skipped when the site already has a request or no such zones.
+ */
+export async function seedDemoRemap(db: DataSource, services: Services, log: Logger, now = new Date()): Promise<void> {
+  const actorOf = (u: User): Actor => ({ id: u.id, email: u.email, name: u.name, role: u.role, organizationId: u.organizationId });
+  const manager = actorOf(await db.getRepository(User).findOneByOrFail({ email: 'priya.manager@corvane.example' }));
+  const mapper = actorOf(await db.getRepository(User).findOneByOrFail({ email: 'tomas.mapper@kestrelway.example' }));
+  const site = await db.getRepository(Site).findOneByOrFail({ name: DEMO_REMAP_SITE });
+  if ((await services.remaps.list(manager, site.id, { page: 1, pageSize: 1 })).total > 0) return;
+  const { zones } = await services.detection.list(manager, site.id, { status: 'open', persistence: 'persistent', page: 1, pageSize: 2 });
+  if (zones.length === 0) return;
+  const remap = await services.remaps.create(manager, site.id, { zoneIds: zones.map((z) => z.id), note: 'Dock 4 lane was re-striped; please re-map before the peak.' });
+  const { windows } = await services.remaps.quietWindows(mapper, site.id, remap.id, { days: 14, count: 1 }, now);
+  if (windows.length === 0) return;
+  await services.remaps.schedule(mapper, site.id, remap.id, { start: new Date(windows[0].start), end: new Date(windows[0].end), assigneeId: mapper.id }, now);
+  log.info({ site: site.name, remap: remap.label }, 'seeded the demo remap request');
+}

@@ -47,3 +47,35 @@ describe('demo seed', () => {
     await db.destroy();
   });
 });
+
+describe('demo remap', () => {
+  it('when the first detection has found zones at Lowen Harbour Hub, then the seed requests and schedules one remap of its two most severe persistent zones, once', async () => {
+    const { createTestApp, demoIds } = await import('./helpers/test-app.js');
+    const { insertZone, roomMap } = await import('./helpers/fixtures.js');
+    const { seedDemoRemap } = await import('../../server/services/demo-seed.service.js');
+    const t = await createTestApp();
+    try {
+      const ids = await demoIds(t.dataSource);
+      const { pgm, yaml } = roomMap();
+      const map = await t.services.mapVersions.upload(ids.admin, ids.corvaneSite, { kind: 'floor', label: 'room', image: { originalname: 'room.pgm', buffer: pgm }, metadataFile: { originalname: 'room.yaml', buffer: yaml } });
+      await t.services.mapVersions.activate(ids.admin, ids.corvaneSite, map.id);
+      for (const n of [1, 2, 3]) await insertZone(t.dataSource, ids.corvaneSite, map.id, n);
+      // Two weeks of day shifts (06–22 UTC) for the quiet-window planner; nights are empty.
+      const { HourlyTraffic } = await import('../../server/entities/index.js');
+      const hours = [];
+      for (let h = Date.parse('2026-10-26T00:00:00Z'); h < Date.parse('2026-11-09T12:00:00Z'); h += 3_600_000) {
+        if (new Date(h).getUTCHours() >= 6 && new Date(h).getUTCHours() < 22) hours.push({ siteId: ids.corvaneSite, hourStartMs: h, scans: 60, returns: 1000 });
+      }
+      await t.dataSource.getRepository(HourlyTraffic).insert(hours);
+      await seedDemoRemap(t.dataSource, t.services, pino({ level: 'silent' }), new Date('2026-11-09T12:00:00Z'));
+      await seedDemoRemap(t.dataSource, t.services, pino({ level: 'silent' }), new Date('2026-11-09T12:00:00Z'));
+      const { remaps, total } = await t.services.remaps.list(ids.admin, ids.corvaneSite, { page: 1, pageSize: 10 });
+      expect(total).toBe(1);
+      expect(remaps[0]).toMatchObject({ status: 'scheduled', requestedBy: { name: expect.any(String) }, assignee: { name: expect.any(String) } });
+      expect(remaps[0].zones).toHaveLength(2);
+      expect(new Date(remaps[0].window!.start).getTime()).toBeGreaterThan(new Date('2026-11-09T12:00:00Z').getTime());
+    } finally {
+      await t.close();
+    }
+  });
+});

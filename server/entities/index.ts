@@ -21,9 +21,12 @@ import { Zone } from './zone.entity.js';
 import { DockingBatch } from './docking-batch.entity.js';
 import { DockingResult } from './docking-result.entity.js';
 import { DockingStation } from './docking-station.entity.js';
+import { CapturedMail } from './captured-mail.entity.js';
+import { OutgoingMail } from './outgoing-mail.entity.js';
 
 export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, HourlyTraffic, Invitation, JobRun, MapVersion, Organization, PoseTrail, RemapRequest, RemapRequestZone, Robot, RobotFlag, RobotToken, ScanBatch, ScanSample, Session, Site, User, Zone };
 export { DockingBatch, DockingResult, DockingStation };
+export { CapturedMail, OutgoingMail };
 
 /** Every entity class, passed to the DataSource as classes (not globs). */
-export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic, DockingStation, DockingBatch, DockingResult, RemapRequest, RemapRequestZone];
+export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic, DockingStation, DockingBatch, DockingResult, RemapRequest, RemapRequestZone, OutgoingMail, CapturedMail];

@@ -10,10 +10,13 @@ import { HealthService } from './health.service.js';
 import { IngestService } from './ingest.service.js';
 import { InvitationsService } from './invitations.service.js';
 import { JobRunsService } from './job-runs.service.js';
+import { MailService } from './mail.service.js';
+import { smtpTransport } from '../mail/transport.js';
 import { MapVersionsService } from './map-versions.service.js';
 import { OrganizationsService } from './organizations.service.js';
 import { PathsService } from './paths.service.js';
 import { RemapsService } from './remaps.service.js';
+import { ReportFiguresService } from './report-figures.service.js';
 import { RobotsService } from './robots.service.js';
 import { ScannerCheckService } from './scanner-check.service.js';
 import { SiteSettingsService } from './site-settings.service.js';
@@ -31,8 +34,13 @@ export function createServices(db: DataSource, config: Config, sessions: Session
   const scannerCheck = new ScannerCheckService(db, sites, robots, mapVersions, audit);
   const detection = new DetectionService(db, sites, mapVersions, health, scannerCheck, audit, log);
   const traffic = new TrafficService(db);
+  const mail = new MailService(db, config.smtp.from, smtpTransport(config.smtp), log);
+  // Tests deliver explicitly; the app sends right after queueing.
+  mail.promptDelivery = config.env !== 'test';
   const remaps = new RemapsService(db, sites, mapVersions, health, traffic, audit, log, config.baseUrl);
+  const docking = new DockingService(db, sites, audit);
   return {
+    mail,
     health,
     scannerCheck,
     detection,
@@ -50,7 +58,8 @@ export function createServices(db: DataSource, config: Config, sessions: Session
     invitations: new InvitationsService(db, audit, config.baseUrl, log),
     organizations: new OrganizationsService(db, audit),
     robots,
-    docking: new DockingService(db, sites, audit),
+    docking,
+    reportFigures: new ReportFiguresService(db, health, mapVersions, docking, config.baseUrl),
   };
 }
 

@@ -17,7 +17,6 @@ import { OrganizationsService } from './organizations.service.js';
 import { PathsService } from './paths.service.js';
 import { RemapsService } from './remaps.service.js';
 import { ReportFiguresService } from './report-figures.service.js';
-import { ReportFiguresService } from './report-figures.service.js';
 import { RobotsService } from './robots.service.js';
 import { ScannerCheckService } from './scanner-check.service.js';
 import { SiteSettingsService } from './site-settings.service.js';
@@ -39,7 +38,6 @@ export function createServices(db: DataSource, config: Config, sessions: Session
   // Tests deliver explicitly; the app sends right after queueing.
   mail.promptDelivery = config.env !== 'test';
   const remaps = new RemapsService(db, sites, mapVersions, health, traffic, audit, log, config.baseUrl);
-  const docking = new DockingService(db, sites, audit);
   const docking = new DockingService(db, sites, audit);
   return {
     mail,

@@ -23,10 +23,13 @@ import { DockingResult } from './docking-result.entity.js';
 import { DockingStation } from './docking-station.entity.js';
 import { CapturedMail } from './captured-mail.entity.js';
 import { OutgoingMail } from './outgoing-mail.entity.js';
+import { MonthlyReport } from './monthly-report.entity.js';
+import { Recipient } from './recipient.entity.js';
 
 export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, HourlyTraffic, Invitation, JobRun, MapVersion, Organization, PoseTrail, RemapRequest, RemapRequestZone, Robot, RobotFlag, RobotToken, ScanBatch, ScanSample, Session, Site, User, Zone };
 export { DockingBatch, DockingResult, DockingStation };
 export { CapturedMail, OutgoingMail };
+export { MonthlyReport, Recipient };
 
 /** Every entity class, passed to the DataSource as classes (not globs). */
-export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic, DockingStation, DockingBatch, DockingResult, RemapRequest, RemapRequestZone, OutgoingMail, CapturedMail];
+export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic, DockingStation, DockingBatch, DockingResult, RemapRequest, RemapRequestZone, OutgoingMail, CapturedMail, Recipient, MonthlyReport];

@@ -13,6 +13,7 @@ import { mapVersionsRoutes } from './map-versions.routes.js';
 import { organizationsRoutes } from './organizations.routes.js';
 import { pathsRoutes } from './paths.routes.js';
 import { remapCalendarRoutes, remapsRoutes } from './remaps.routes.js';
+import { recipientsRoutes, unsubscribeRoutes } from './reports.routes.js';
 import { robotsRoutes } from './robots.routes.js';
 import { scanBatchesRoutes } from './scan-batches.routes.js';
 import { siteSettingsRoutes } from './site-settings.routes.js';
@@ -34,6 +35,8 @@ export function routeTable(services: Services, config: Config, db: DataSource, v
     { path: '/invitations', router: invitationsRoutes(services) },
     { path: '/users', router: usersRoutes(services) },
     { path: '/organizations', router: organizationsRoutes(services) },
+    { path: '/organizations/:orgId/recipients', router: recipientsRoutes(services) },
+    { path: '/unsubscribe', router: unsubscribeRoutes(services) },
     { path: '/sites', router: sitesRoutes(services) },
     { path: '/sites/:siteId/settings', router: siteSettingsRoutes(services) },
     { path: '/sites/:siteId/paths', router: pathsRoutes(services) },

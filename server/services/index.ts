@@ -16,6 +16,7 @@ import { MapVersionsService } from './map-versions.service.js';
 import { OrganizationsService } from './organizations.service.js';
 import { PathsService } from './paths.service.js';
 import { RemapsService } from './remaps.service.js';
+import { RecipientsService } from './recipients.service.js';
 import { ReportFiguresService } from './report-figures.service.js';
 import { RobotsService } from './robots.service.js';
 import { ScannerCheckService } from './scanner-check.service.js';
@@ -60,6 +61,7 @@ export function createServices(db: DataSource, config: Config, sessions: Session
     robots,
     docking,
     reportFigures: new ReportFiguresService(db, health, mapVersions, docking, config.baseUrl),
+    recipients: new RecipientsService(db, audit, config.sessionSecret, config.baseUrl),
   };
 }
 

@@ -45,6 +45,11 @@ async function newFlag(c: Ctx) {
 async function newStation(c: Ctx) {
   return c.t.services.docking.create(operator(c), c.ids.ambergateSite, { name: `MX station ${c.who} ${c.n}` });
 }
+/** Site managers of the organization and admins keep report recipients and read reports. */
+const reportKeepers = (s: number): Record<Who, number> => ({ anon: 401, admin: s, mapper: 403, site_manager: s, viewer: 403 });
+async function newRecipient(c: Ctx) {
+  return c.t.services.recipients.add(operator(c), c.ids.ambergate, { email: `mx-${c.who}-${c.n}-${crypto.randomUUID().slice(0, 8)}@ambergate.example` });
+}
 async function newRobot(c: Ctx) {
   return c.t.services.robots.create(operator(c), c.ids.ambergateSite, { name: `MX-${c.who}-${c.n}`, model: 'Matrix test', mounts: [] });
 }
@@ -63,6 +68,10 @@ const CASES: Case[] = [
   { route: 'PATCH /api/users/:id', expect: adminOnly(200), body: () => ({ status: 'active' }), prepare: (c) => ({ path: `/api/users/${c.ids.priya}` }) },
   { route: 'GET /api/organizations', expect: signedIn(200) },
   { route: 'POST /api/organizations', expect: adminOnly(201), body: (c) => ({ name: `Matrix Org ${c.who} ${c.n}`, timezone: 'Europe/Berlin' }) },
+  { route: 'GET /api/organizations/:orgId/recipients', expect: reportKeepers(200), prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/recipients` }) },
+  { route: 'POST /api/organizations/:orgId/recipients', expect: reportKeepers(201), body: (c) => ({ email: `reader-${c.who}-${c.n}@ambergate.example` }), prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/recipients` }) },
+  { route: 'DELETE /api/organizations/:orgId/recipients/:recipientId', expect: reportKeepers(204), prepare: async (c) => ({ path: `/api/organizations/${c.ids.ambergate}/recipients/${(await newRecipient(c)).id}` }) },
+  { route: 'GET /api/unsubscribe/:token', expect: all(200), prepare: async (c) => ({ path: new URL(c.t.services.recipients.unsubscribeLink((await newRecipient(c)).id)).pathname }) },
   { route: 'GET /api/sites', expect: signedIn(200) },
   { route: 'POST /api/sites', expect: adminOnly(201), body: (c) => ({ name: `Matrix Site ${c.who} ${c.n}`, city: 'Nowhere', timezone: 'Europe/London', organizationId: c.ids.ambergate }) },
   { route: 'GET /api/sites/:siteId', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}` }) },

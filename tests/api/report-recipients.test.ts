@@ -1,0 +1,80 @@
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { AuditEvent, Recipient } from '../../server/entities/index.js';
+import { readUnsubscribeToken, unsubscribeToken } from '../../server/services/recipients.service.js';
+import { createTestApp, demoIds, signIn, type TestApp } from './helpers/test-app.js';
+
+// Report recipients of a customer organization: kept by its site managers and admins, and an
+// unsubscribe by signed link (HMAC-SHA256, RFC 2104) that works without signing in and is recorded.
+describe('report recipients and unsubscribe', () => {
+  let t: TestApp;
+  let ids: Awaited<ReturnType<typeof demoIds>>;
+  let nadia: string;
+  let priya: string;
+  let iris: string;
+  const path = (org: string, rest = '') => `/api/organizations/${org}/recipients${rest}`;
+
+  beforeAll(async () => {
+    t = await createTestApp();
+    ids = await demoIds(t.dataSource);
+    nadia = await signIn(t.app, 'nadia.manager@ambergate.example', 'demo-manager-2026');
+    priya = await signIn(t.app, 'priya.manager@corvane.example', 'demo-manager-2026');
+    iris = await signIn(t.app, 'iris.admin@kestrelway.example', 'demo-admin-2026');
+  });
+  afterAll(() => t.close());
+
+  it('lets the organization’s site manager add and list recipients, lower-casing the address, and refuses a second entry', async () => {
+    const add = await request(t.app).post(path(ids.ambergate)).set('Cookie', nadia).send({ email: 'Shift.Lead@Ambergate.example', name: 'Shift lead' });
+    expect(add.status).toBe(201);
+    expect(add.body.recipient).toMatchObject({ email: 'shift.lead@ambergate.example', name: 'Shift lead', unsubscribedAt: null, createdBy: { name: 'Nadia Okonkwo-Hale' } });
+    const again = await request(t.app).post(path(ids.ambergate)).set('Cookie', iris).send({ email: 'shift.lead@ambergate.example' });
+    expect(again.status).toBe(409);
+    expect(again.body.error.message).toMatch(/already receives/);
+    const list = await request(t.app).get(path(ids.ambergate)).set('Cookie', nadia);
+    expect(list.body.recipients.map((r: { email: string }) => r.email)).toEqual(['shift.lead@ambergate.example']);
+    expect(await t.dataSource.getRepository(AuditEvent).countBy({ action: 'recipient.add' })).toBe(1);
+  });
+
+  it('hides another organization’s list from a site manager and refuses bad input with a clear message', async () => {
+    expect((await request(t.app).get(path(ids.ambergate)).set('Cookie', priya)).status).toBe(404);
+    const bad = await request(t.app).post(path(ids.ambergate)).set('Cookie', nadia).send({ email: 'not an address' });
+    expect(bad.status).toBe(400);
+    expect(JSON.stringify(bad.body)).toMatch(/e-mail address/);
+    // The operator organization gets no monthly report.
+    const operator = await request(t.app).get(path(ids.admin.organizationId)).set('Cookie', iris);
+    expect(operator.status).toBe(400);
+    expect(operator.body.error.message).toMatch(/customer organizations/);
+  });
+
+  it('unsubscribes from the signed link without a session, records it once, and keeps the address off the list', async () => {
+    const r = await t.dataSource.getRepository(Recipient).findOneByOrFail({ email: 'shift.lead@ambergate.example' });
+    const link = t.services.recipients.unsubscribeLink(r.id);
+    expect(link.startsWith(`${t.config.baseUrl}/api/unsubscribe/`)).toBe(true);
+    const token = link.split('/').pop()!;
+    expect(readUnsubscribeToken(t.config.sessionSecret, token)).toBe(r.id);
+    // Another secret does not read it; a changed id breaks the signature.
+    expect(readUnsubscribeToken('another-secret-another-secret-0123456', token)).toBeNull();
+    const forged = unsubscribeToken(t.config.sessionSecret, r.id).replace(r.id, ids.ambergate);
+    expect((await request(t.app).get(`/api/unsubscribe/${forged}`)).status).toBe(400);
+
+    const page = await request(t.app).get(`/api/unsubscribe/${token}`).set('Accept', 'text/html');
+    expect(page.status).toBe(200);
+    expect(page.text).toContain('shift.lead@ambergate.example will no longer receive');
+    const first = (await t.dataSource.getRepository(Recipient).findOneByOrFail({ id: r.id })).unsubscribedAt;
+    expect(first).not.toBeNull();
+    const json = await request(t.app).get(`/api/unsubscribe/${token}`).set('Accept', 'application/json');
+    expect(json.body).toEqual({ email: 'shift.lead@ambergate.example', organization: 'Ambergate Provisions', unsubscribedAt: first!.toISOString() });
+    expect(await t.dataSource.getRepository(AuditEvent).countBy({ action: 'recipient.unsubscribe' })).toBe(1);
+    expect(await t.services.recipients.active(ids.ambergate)).toEqual([]);
+    const readd = await request(t.app).post(path(ids.ambergate)).set('Cookie', nadia).send({ email: 'shift.lead@ambergate.example' });
+    expect(readd.status).toBe(409);
+    expect(readd.body.error.message).toMatch(/unsubscribed/);
+  });
+
+  it('removes a recipient', async () => {
+    const add = await request(t.app).post(path(ids.ambergate)).set('Cookie', iris).send({ email: 'night.shift@ambergate.example' });
+    expect((await request(t.app).delete(path(ids.ambergate, `/${add.body.recipient.id}`)).set('Cookie', nadia)).status).toBe(204);
+    expect(await t.dataSource.getRepository(Recipient).countBy({ id: add.body.recipient.id })).toBe(0);
+    expect((await request(t.app).delete(path(ids.ambergate, `/${add.body.recipient.id}`)).set('Cookie', nadia)).status).toBe(404);
+  });
+});

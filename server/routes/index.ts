@@ -13,7 +13,7 @@ import { mapVersionsRoutes } from './map-versions.routes.js';
 import { organizationsRoutes } from './organizations.routes.js';
 import { pathsRoutes } from './paths.routes.js';
 import { remapCalendarRoutes, remapsRoutes } from './remaps.routes.js';
-import { recipientsRoutes, unsubscribeRoutes } from './reports.routes.js';
+import { recipientsRoutes, reportsRoutes, unsubscribeRoutes } from './reports.routes.js';
 import { robotsRoutes } from './robots.routes.js';
 import { scanBatchesRoutes } from './scan-batches.routes.js';
 import { siteSettingsRoutes } from './site-settings.routes.js';
@@ -36,6 +36,7 @@ export function routeTable(services: Services, config: Config, db: DataSource, v
     { path: '/users', router: usersRoutes(services) },
     { path: '/organizations', router: organizationsRoutes(services) },
     { path: '/organizations/:orgId/recipients', router: recipientsRoutes(services) },
+    { path: '/organizations/:orgId/reports', router: reportsRoutes(services) },
     { path: '/unsubscribe', router: unsubscribeRoutes(services) },
     { path: '/sites', router: sitesRoutes(services) },
     { path: '/sites/:siteId/settings', router: siteSettingsRoutes(services) },

@@ -51,3 +51,28 @@ export function unsubscribeRoutes(services: Services) {
   });
   return router;
 }
+
+const monthParams = z.object({ orgId: id, month: z.string().regex(/^\d{4}-(0[1-9]|1[0-2])$/, 'must be a month written YYYY-MM') });
+
+/**
+ * /api/organizations/:orgId/reports: history and preview for admins and the organization's site
+ * managers; its viewers read the reports that were sent; admins send a month's report now.
+ */
+export function reportsRoutes(services: Services) {
+  const router = Router({ mergeParams: true });
+  router.use(authenticate, requireRole('admin', 'site_manager', 'viewer'));
+
+  router.get('/', validate({ params: orgParams }), async (_req, res) => {
+    res.json(await services.reports.history(actorOf(res), res.locals.params.orgId));
+  });
+
+  router.get('/:month/preview', validate({ params: monthParams }), async (_req, res) => {
+    res.json(await services.reports.preview(actorOf(res), res.locals.params.orgId, res.locals.params.month));
+  });
+
+  router.post('/:month/send', requireRole('admin'), validate({ params: monthParams, body: z.strictObject({}).optional() }), async (_req, res) => {
+    res.json(await services.reports.send(res.locals.params.orgId, res.locals.params.month));
+  });
+
+  return router;
+}

@@ -18,6 +18,7 @@ import { PathsService } from './paths.service.js';
 import { RemapsService } from './remaps.service.js';
 import { RecipientsService } from './recipients.service.js';
 import { ReportFiguresService } from './report-figures.service.js';
+import { ReportsService } from './reports.service.js';
 import { RobotsService } from './robots.service.js';
 import { ScannerCheckService } from './scanner-check.service.js';
 import { SiteSettingsService } from './site-settings.service.js';
@@ -40,6 +41,8 @@ export function createServices(db: DataSource, config: Config, sessions: Session
   mail.promptDelivery = config.env !== 'test';
   const remaps = new RemapsService(db, sites, mapVersions, health, traffic, audit, log, config.baseUrl);
   const docking = new DockingService(db, sites, audit);
+  const reportFigures = new ReportFiguresService(db, health, mapVersions, docking, config.baseUrl);
+  const recipients = new RecipientsService(db, audit, config.sessionSecret, config.baseUrl);
   return {
     mail,
     health,
@@ -60,8 +63,9 @@ export function createServices(db: DataSource, config: Config, sessions: Session
     organizations: new OrganizationsService(db, audit),
     robots,
     docking,
-    reportFigures: new ReportFiguresService(db, health, mapVersions, docking, config.baseUrl),
-    recipients: new RecipientsService(db, audit, config.sessionSecret, config.baseUrl),
+    reportFigures,
+    recipients,
+    reports: new ReportsService(db, reportFigures, mapVersions, recipients, mail, config.baseUrl),
   };
 }
 

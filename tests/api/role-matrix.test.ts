@@ -2,6 +2,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Robot, RobotFlag } from '../../server/entities/index.js';
 import { listRoutes } from '../../server/routes/index.js';
+import { previousMonth } from '../../server/services/report-figures.service.js';
 import { insertZone, roomMap, scanLine } from './helpers/fixtures.js';
 import { dockingLine, uploadStationModel } from './helpers/docking-fixtures.js';
 import { actorByEmail, MAPPER_EMAIL, openZone, remapAt } from './helpers/remap-fixtures.js';
@@ -47,6 +48,7 @@ async function newStation(c: Ctx) {
 }
 /** Site managers of the organization and admins keep report recipients and read reports. */
 const reportKeepers = (s: number): Record<Who, number> => ({ anon: 401, admin: s, mapper: 403, site_manager: s, viewer: 403 });
+const lastMonth = () => previousMonth('Europe/London', new Date());
 async function newRecipient(c: Ctx) {
   return c.t.services.recipients.add(operator(c), c.ids.ambergate, { email: `mx-${c.who}-${c.n}-${crypto.randomUUID().slice(0, 8)}@ambergate.example` });
 }
@@ -71,6 +73,10 @@ const CASES: Case[] = [
   { route: 'GET /api/organizations/:orgId/recipients', expect: reportKeepers(200), prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/recipients` }) },
   { route: 'POST /api/organizations/:orgId/recipients', expect: reportKeepers(201), body: (c) => ({ email: `reader-${c.who}-${c.n}@ambergate.example` }), prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/recipients` }) },
   { route: 'DELETE /api/organizations/:orgId/recipients/:recipientId', expect: reportKeepers(204), prepare: async (c) => ({ path: `/api/organizations/${c.ids.ambergate}/recipients/${(await newRecipient(c)).id}` }) },
+  { route: 'GET /api/organizations/:orgId/reports', expect: { ...reportKeepers(200), viewer: 200 }, prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/reports` }) },
+  // Viewers read sent reports only; last month's was not sent here.
+  { route: 'GET /api/organizations/:orgId/reports/:month/preview', expect: { ...reportKeepers(200), viewer: 404 }, prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/reports/${lastMonth()}/preview` }) },
+  { route: 'POST /api/organizations/:orgId/reports/:month/send', expect: adminOnly(200), body: () => ({}), prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/reports/${lastMonth()}/send` }) },
   { route: 'GET /api/unsubscribe/:token', expect: all(200), prepare: async (c) => ({ path: new URL(c.t.services.recipients.unsubscribeLink((await newRecipient(c)).id)).pathname }) },
   { route: 'GET /api/sites', expect: signedIn(200) },
   { route: 'POST /api/sites', expect: adminOnly(201), body: (c) => ({ name: `Matrix Site ${c.who} ${c.n}`, city: 'Nowhere', timezone: 'Europe/London', organizationId: c.ids.ambergate }) },

@@ -5,12 +5,15 @@ import { Site } from '../server/entities/index.js';
 import type { Services } from '../server/services/index.js';
 import { siteSettings } from '../server/services/site-settings.js';
 import { detectionJob } from './detection.job.js';
+import { reportJob } from './report.job.js';
 import { retentionJob } from './retention.job.js';
 
 /** Server-local time of the daily retention run (product choice: quiet hours). */
 const RETENTION_CRON = '30 3 * * *';
 /** How often the per-site schedules are compared with the sites' settings. */
 const REFRESH_CRON = '*/10 * * * *';
+/** Hourly check for due monthly reports: the 1st at 07:00 in each organization's zone (ReportsService.due). */
+const REPORT_CRON = '5 * * * *';
 
 /**
  * Schedules the jobs in-process with node-cron: one nightly detection per site at its local
@@ -49,6 +52,7 @@ export function scheduleJobs(deps: { services: Services; dataSource: DataSource;
 
   const retention = cron.schedule(RETENTION_CRON, guarded('retention', () => retentionJob(deps, new Date())), { name: 'retention', noOverlap: true });
   const refresher = cron.schedule(REFRESH_CRON, guarded('refresh', refresh), { name: 'schedule-refresh', noOverlap: true });
+  const reports = cron.schedule(REPORT_CRON, guarded('report', () => reportJob(deps, new Date())), { name: 'monthly-reports', noOverlap: true });
   const ready = refresh().catch((err) => deps.log.error({ err }, 'could not schedule the per-site jobs'));
 
   return {
@@ -60,6 +64,7 @@ export function scheduleJobs(deps: { services: Services; dataSource: DataSource;
       for (const { task } of perSite.values()) await task.destroy();
       await retention.destroy();
       await refresher.destroy();
+      await reports.destroy();
     },
   };
 }

@@ -7,6 +7,7 @@ import { notFound } from '../http-error.js';
 import type { DetectionService } from './detection.service.js';
 import { newId } from './ids.js';
 import type { RemapsService } from './remaps.service.js';
+import type { ReportsService } from './reports.service.js';
 import { completeDays } from './site-days.js';
 import { siteSettings } from './site-settings.js';
 
@@ -76,6 +77,12 @@ export class JobRunsService {
       if (run) runs.push(run);
     }
     return runs;
+  }
+
+  /** The monthly reports that are due (ReportsService.due), sent as one 'report' run; null when none is due, so the hourly check leaves no empty runs. */
+  async report(trigger: Trigger, reports: Pick<ReportsService, 'due' | 'sendDue'>, now = new Date()) {
+    if ((await reports.due(now)).length === 0) return null;
+    return this.record('report', null, trigger, async () => ({ reports: await reports.sendDue(now) }));
   }
 
   /** Evidence retention: drops evidence, agreement blocks, scan samples, robot trails and hourly traffic older than each site's retention days. */

@@ -13,6 +13,9 @@ import type { MapVersionsService } from './map-versions.service.js';
 import type { RecipientsService } from './recipients.service.js';
 import { monthBounds, monthIsPast, type ReportFigures, type ReportFiguresService, type SiteReportFigures } from './report-figures.service.js';
 
+/** Local hour of the 1st of the month when the reports go out (product choice). */
+export const REPORT_HOUR = 7;
+
 /** Longest side of the map picture in the mail, pixels. */
 const MAP_IMAGE_SIDE = 560;
 
@@ -159,14 +162,29 @@ export class ReportsService {
     return { report: await this.view(await this.db.getRepository(MonthlyReport).findOneByOrFail({ id: report.id })), recipients: recipients.length, queued };
   }
 
-  /** Sends the previous month's report of every customer organization whose 1st-of-month hour has come (the monthly job). */
-  async sendDue(now: Date, hour: number) {
-    const orgs = await this.db.getRepository(Organization).findBy({ kind: 'customer' });
-    const out: Array<{ organization: string; month: string; queued: number }> = [];
+  /**
+   * The customer organizations whose previous month's report is due at `now`: it is the 1st in the
+   * organization's zone at or after `hour`, and the report is not made yet, was left half-made, or
+   * was made but not sent while someone is on the list (a stop between generating and sending).
+   */
+  async due(now: Date, hour = REPORT_HOUR) {
+    const orgs = await this.db.getRepository(Organization).find({ where: { kind: 'customer' }, order: { name: 'ASC' } });
+    const out: Array<{ org: Organization; month: string }> = [];
     for (const org of orgs) {
       const local = DateTime.fromJSDate(now, { zone: org.timezone });
       if (local.day !== 1 || local.hour < hour) continue;
       const month = local.minus({ months: 1 }).toFormat('yyyy-MM');
+      const row = await this.db.getRepository(MonthlyReport).findOne({ where: { organizationId: org.id, month }, select: { id: true, status: true } });
+      if (row && (row.status === 'sent' || (row.status === 'ready' && (await this.recipients.active(org.id)).length === 0))) continue;
+      out.push({ org, month });
+    }
+    return out;
+  }
+
+  /** Sends every due report (the monthly job); a re-run finds nothing due and queues nothing. */
+  async sendDue(now: Date, hour = REPORT_HOUR) {
+    const out: Array<{ organization: string; month: string; queued: number }> = [];
+    for (const { org, month } of await this.due(now, hour)) {
       const { queued } = await this.send(org.id, month, now);
       out.push({ organization: org.name, month, queued });
     }

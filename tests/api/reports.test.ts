@@ -123,8 +123,11 @@ describe('monthly reports', () => {
     expect(names).toContain('Pellworth Grocers');
     expect(names).not.toContain('Sallow Ridge Hardware');
     expect(due.find((d) => d.organization === 'Pellworth Grocers')).toEqual({ organization: 'Pellworth Grocers', month: '2026-12', queued: 1 });
+    // Later that day Denver's hour has come; London's report is sent and not due again.
     const later = await t.services.reports.sendDue(new Date('2027-01-01T14:00:00Z'), 7);
-    expect(later.map((d) => [d.organization, d.month, d.queued])).toEqual(expect.arrayContaining([['Pellworth Grocers', '2026-12', 0], ['Sallow Ridge Hardware', '2026-12', 0]]));
+    expect(later.map((d) => d.organization)).toContain('Sallow Ridge Hardware');
+    expect(later.map((d) => d.organization)).not.toContain('Pellworth Grocers');
+    expect(await t.services.reports.sendDue(new Date('2027-01-01T15:00:00Z'), 7)).toEqual([]);
     expect(await mails().countBy({ organizationId: orgId })).toBe(4);
     expect(await reports().countBy({ organizationId: denverId, month: '2026-12' })).toBe(1);
   });
@@ -135,5 +138,24 @@ describe('monthly reports', () => {
     expect(res.body.reports[1].deliveries).toEqual({ queued: 2 });
     const tomas = await signIn(t.app, 'tomas.mapper@kestrelway.example', 'demo-mapper-2026');
     expect((await request(t.app).get(`/api/organizations/${orgId}/reports`).set('Cookie', tomas)).status).toBe(403);
+  });
+});
+
+describe('monthly report job', () => {
+  it('records a report run only when a report is due, and a second run the same hour finds nothing', async () => {
+    const t = await createTestApp();
+    try {
+      const admin = await actorByEmail(t, ADMIN_EMAIL);
+      const { ambergate } = { ambergate: (await t.dataSource.getRepository(Organization).findOneByOrFail({ name: 'Ambergate Provisions' })).id };
+      await t.services.recipients.add(admin, ambergate, { email: 'reader@ambergate.example' });
+      expect(await t.services.jobRuns.report('schedule', t.services.reports, new Date('2026-11-15T07:05:00Z'))).toBeNull();
+      const run = await t.services.jobRuns.report('schedule', t.services.reports, new Date('2026-12-01T07:05:00Z'));
+      expect(run).toMatchObject({ job: 'report', status: 'succeeded' });
+      expect((run!.figures as { reports: Array<{ organization: string; month: string; queued: number }> }).reports).toEqual([{ organization: 'Ambergate Provisions', month: '2026-11', queued: 1 }]);
+      expect(await t.services.jobRuns.report('schedule', t.services.reports, new Date('2026-12-01T08:05:00Z'))).toBeNull();
+      expect(await t.dataSource.getRepository(OutgoingMail).countBy({ kind: 'report' })).toBe(1);
+    } finally {
+      await t.close();
+    }
   });
 });

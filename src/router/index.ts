@@ -119,6 +119,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Remaps calendar' },
   },
   {
+    path: '/reports',
+    name: 'reports',
+    component: () => import('@/views/ReportsView.vue'),
+    meta: { roles: ['admin', 'site_manager', 'viewer'], title: 'Reports' },
+  },
+  {
     path: '/admin',
     component: () => import('@/views/AdminView.vue'),
     meta: { roles: ['admin'], title: 'Admin' },

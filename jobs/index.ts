@@ -14,6 +14,8 @@ const RETENTION_CRON = '30 3 * * *';
 const REFRESH_CRON = '*/10 * * * *';
 /** Hourly check for due monthly reports: the 1st at 07:00 in each organization's zone (ReportsService.due). */
 const REPORT_CRON = '5 * * * *';
+/** Mail delivery: due queued mail and retries, every minute. */
+const MAIL_CRON = '* * * * *';
 
 /**
  * Schedules the jobs in-process with node-cron: one nightly detection per site at its local
@@ -53,6 +55,7 @@ export function scheduleJobs(deps: { services: Services; dataSource: DataSource;
   const retention = cron.schedule(RETENTION_CRON, guarded('retention', () => retentionJob(deps, new Date())), { name: 'retention', noOverlap: true });
   const refresher = cron.schedule(REFRESH_CRON, guarded('refresh', refresh), { name: 'schedule-refresh', noOverlap: true });
   const reports = cron.schedule(REPORT_CRON, guarded('report', () => reportJob(deps, new Date())), { name: 'monthly-reports', noOverlap: true });
+  const mail = cron.schedule(MAIL_CRON, guarded('mail', () => deps.services.mail.deliverDue(new Date())), { name: 'mail-delivery', noOverlap: true });
   const ready = refresh().catch((err) => deps.log.error({ err }, 'could not schedule the per-site jobs'));
 
   return {
@@ -65,6 +68,7 @@ export function scheduleJobs(deps: { services: Services; dataSource: DataSource;
       await retention.destroy();
       await refresher.destroy();
       await reports.destroy();
+      await mail.destroy();
     },
   };
 }

@@ -6,6 +6,7 @@ import { scheduleJobs } from '../jobs/index.js';
 import { createApp } from './app.js';
 import { loadConfig } from './config.js';
 import { openDatabase } from './data-source.js';
+import { startMailCapture, type MailCapture } from './mail/capture.js';
 import { DEMO_DAYS, demoEvidencePending, seedDemoAccounts, seedDemoEvidence, seedDemoRemap } from './services/demo-seed.service.js';
 
 // Entry point: config → data source → app → listen; graceful stop on SIGTERM/SIGINT.
@@ -18,6 +19,15 @@ async function main() {
   await services.ingest.failInterrupted();
   await services.jobRuns.failInterrupted();
   if (config.seedDemo) await seedDemoAccounts(dataSource, log);
+  // No SMTP host configured: mail goes to the built-in capture server and shows in the admin outbox.
+  // A port already taken (another Driftline on this machine) must not stop the app: mail then waits in the queue.
+  const capture: MailCapture | null =
+    config.smtp.host === null
+      ? await startMailCapture(dataSource, config.smtp.port, log).catch((err) => {
+          log.error({ err, port: config.smtp.port }, 'the mail capture server could not start; mail stays queued');
+          return null;
+        })
+      : null;
   const server: Server = app.listen(config.port, config.host, () => {
     const address = server.address();
     const port = typeof address === 'object' && address ? address.port : config.port;
@@ -54,6 +64,7 @@ async function main() {
     const force = setTimeout(() => process.exit(1), 10_000).unref();
     server.close(async () => {
       await jobs.stop();
+      await capture?.close();
       await dataSource.destroy();
       clearTimeout(force);
       process.exit(0);

@@ -11,6 +11,7 @@ import { invitationsRoutes } from './invitations.routes.js';
 import { jobRunsRoutes } from './job-runs.routes.js';
 import { mapVersionsRoutes } from './map-versions.routes.js';
 import { organizationsRoutes } from './organizations.routes.js';
+import { mailRoutes, outboxRoutes } from './outbox.routes.js';
 import { pathsRoutes } from './paths.routes.js';
 import { remapCalendarRoutes, remapsRoutes } from './remaps.routes.js';
 import { recipientsRoutes, reportsRoutes, unsubscribeRoutes } from './reports.routes.js';
@@ -51,6 +52,8 @@ export function routeTable(services: Services, config: Config, db: DataSource, v
     { path: '/ingest', router: ingestRoutes(services) },
     { path: '/job-runs', router: jobRunsRoutes(services) },
     { path: '/audit-events', router: auditRoutes(services) },
+    { path: '/outbox', router: outboxRoutes(services) },
+    { path: '/mail', router: mailRoutes(services) },
   ];
 }
 

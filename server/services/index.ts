@@ -14,6 +14,7 @@ import { MailService } from './mail.service.js';
 import { smtpTransport } from '../mail/transport.js';
 import { MapVersionsService } from './map-versions.service.js';
 import { OrganizationsService } from './organizations.service.js';
+import { OutboxService } from './outbox.service.js';
 import { PathsService } from './paths.service.js';
 import { RemapsService } from './remaps.service.js';
 import { RecipientsService } from './recipients.service.js';
@@ -45,6 +46,7 @@ export function createServices(db: DataSource, config: Config, sessions: Session
   const recipients = new RecipientsService(db, audit, config.sessionSecret, config.baseUrl);
   return {
     mail,
+    outbox: new OutboxService(db),
     health,
     scannerCheck,
     detection,
@@ -59,7 +61,7 @@ export function createServices(db: DataSource, config: Config, sessions: Session
     sites,
     siteSettings: new SiteSettingsService(db, sites, audit),
     users: new UsersService(db, sessions, audit),
-    invitations: new InvitationsService(db, audit, config.baseUrl, log),
+    invitations: new InvitationsService(db, audit, config.baseUrl, log, mail),
     organizations: new OrganizationsService(db, audit),
     robots,
     docking,

@@ -5,7 +5,9 @@ import { hashPassword } from '../auth/password.js';
 import { Invitation, Organization, User } from '../entities/index.js';
 import type { Role } from '../entities/user.entity.js';
 import { badRequest, conflict, HttpError, notFound } from '../http-error.js';
+import { renderMail } from '../mail/render.js';
 import type { AuditService } from './audit.service.js';
+import type { MailService } from './mail.service.js';
 import { newId, newSecret, sha256 } from './ids.js';
 import { meView, roleFitsOrganization } from './users.service.js';
 
@@ -33,9 +35,10 @@ export class InvitationsService {
     private readonly audit: AuditService,
     private readonly baseUrl: string,
     private readonly log: Logger,
+    private readonly mail: MailService,
   ) {}
 
-  /** Creates an invitation and returns it with its one-time link (shown to the admin and logged until e-mail exists). */
+  /** Creates an invitation and returns it with its one-time link (shown to the admin) and queues the invitation mail with it. */
   async create(actor: Actor, input: { email: string; name: string; role: Role; organizationId: string }) {
     const email = input.email.toLowerCase();
     const org = await this.db.getRepository(Organization).findOneBy({ id: input.organizationId });
@@ -63,7 +66,16 @@ export class InvitationsService {
       return inv;
     });
     const link = `${this.baseUrl}/invite/${token}`;
-    this.log.info({ email, organization: org.name, role: input.role, link }, 'invitation link created');
+    this.log.info({ email, organization: org.name, role: input.role }, 'invitation link created');
+    const { html, text } = await renderMail('invitation', {
+      name: input.name,
+      invitedBy: actor.name,
+      organization: org.name,
+      roleLabel: input.role.replace('_', ' '),
+      link,
+      expires: invitation.expiresAt.toISOString().slice(0, 16).replace('T', ' ') + ' UTC',
+    });
+    await this.mail.enqueue({ dedupeKey: `invitation:${invitation.id}`, kind: 'invitation', organizationId: org.id, to: { email, name: input.name }, subject: `You are invited to ${org.name} on Driftline`, html, text });
     const saved = await this.db.getRepository(Invitation).findOneOrFail({ where: { id: invitation.id }, relations: { organization: true, invitedBy: true } });
     return { invitation: invitationView(saved), link };
   }

@@ -7,6 +7,7 @@ import { insertZone, roomMap, scanLine } from './helpers/fixtures.js';
 import { dockingLine, uploadStationModel } from './helpers/docking-fixtures.js';
 import { actorByEmail, MAPPER_EMAIL, openZone, remapAt } from './helpers/remap-fixtures.js';
 import { createTestApp, demoAccount, demoIds, signIn, type TestApp } from './helpers/test-app.js';
+import { insertCapturedMail } from './helpers/mail-fixtures.js';
 
 // Every API route, called by every role and by an anonymous client, must answer the status
 // written here. A route added without a row here makes the first test fail, so none escapes.
@@ -168,6 +169,10 @@ const CASES: Case[] = [
     },
   },
   { route: 'PUT /api/sites/:siteId/stations/:stationId/tolerance', expect: adminOnly(200), body: () => ({ toleranceMm: 12, toleranceDeg: null }), prepare: async (c) => ({ path: `/api/sites/${c.ids.ambergateSite}/stations/${(await newStation(c)).id}/tolerance` }) },
+  { route: 'GET /api/outbox', expect: adminOnly(200) },
+  { route: 'GET /api/outbox/:id', expect: adminOnly(200), prepare: async (c) => ({ path: `/api/outbox/${await insertCapturedMail(c.t)}` }) },
+  { route: 'GET /api/outbox/:id/parts/:partId', expect: adminOnly(200), prepare: async (c) => ({ path: `/api/outbox/${await insertCapturedMail(c.t)}/parts/pixel` }) },
+  { route: 'GET /api/mail', expect: reportKeepers(200) },
   { route: 'GET /api/job-runs', expect: adminOnly(200) },
   { route: 'POST /api/job-runs', expect: adminOnly(202), body: () => ({ job: 'retention' }) },
   // Robots post with bearer tokens; a person's session is not enough.

@@ -7,6 +7,7 @@ import { createApp } from './app.js';
 import { loadConfig } from './config.js';
 import { openDatabase } from './data-source.js';
 import { startMailCapture, type MailCapture } from './mail/capture.js';
+import { smtpTransport } from './mail/transport.js';
 import { DEMO_DAYS, demoEvidencePending, seedDemoAccounts, seedDemoEvidence, seedDemoRemap } from './services/demo-seed.service.js';
 
 // Entry point: config → data source → app → listen; graceful stop on SIGTERM/SIGINT.
@@ -20,14 +21,16 @@ async function main() {
   await services.jobRuns.failInterrupted();
   if (config.seedDemo) await seedDemoAccounts(dataSource, log);
   // No SMTP host configured: mail goes to the built-in capture server and shows in the admin outbox.
-  // A port already taken (another Driftline on this machine) must not stop the app: mail then waits in the queue.
+  // A port already taken (another Driftline on this machine) must not stop the app nor hand our mail to
+  // the other one's capture: fall back to a free port and send there.
   const capture: MailCapture | null =
     config.smtp.host === null
       ? await startMailCapture(dataSource, config.smtp.port, log).catch((err) => {
-          log.error({ err, port: config.smtp.port }, 'the mail capture server could not start; mail stays queued');
-          return null;
+          log.warn({ err, port: config.smtp.port }, 'the mail capture port is taken; capturing on a free port instead');
+          return startMailCapture(dataSource, 0, log);
         })
       : null;
+  if (capture && capture.port !== config.smtp.port) services.mail.useTransport(smtpTransport({ ...config.smtp, port: capture.port }));
   const server: Server = app.listen(config.port, config.host, () => {
     const address = server.address();
     const port = typeof address === 'object' && address ? address.port : config.port;

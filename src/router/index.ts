@@ -143,6 +143,7 @@ export const routes: RouteRecordRaw[] = [
         component: () => import('@/views/AdminInvitationsView.vue'),
         meta: { title: 'Invitations' },
       },
+      { path: 'outbox', name: 'admin-outbox', component: () => import('@/views/AdminOutboxView.vue'), meta: { title: 'Outbox' } },
       { path: 'job-runs', name: 'admin-job-runs', component: () => import('@/views/AdminJobRunsView.vue'), meta: { title: 'Job runs' } },
       { path: 'audit', name: 'admin-audit', component: () => import('@/views/AdminAuditView.vue'), meta: { title: 'Audit log' } },
     ],

@@ -326,7 +326,7 @@ export const tests = [
       await screenshot('remaps-calendar.png');
 
       await cell.getByRole('button', { name: /^Show the week of / }).click();
-      const weekEntry = page.locator(`.cal-week__column[data-day="${day}"]`).getByRole('link', { name: new RegExp(`^R-${shared.remap.number} `) });
+      const weekEntry = page.locator(`.cal-week__column[data-day="${day}"]`).getByRole('link', { name: new RegExp(`^R-${shared.remap.number} .*${siteName}`) });
       await weekEntry.waitFor();
       await screenshot('remaps-calendar-week.png', { fullPage: false });
       await weekEntry.click();

@@ -26,6 +26,7 @@ const envSchema = z.object({
   DRIFTLINE_SMTP_USER: z.string().optional(),
   DRIFTLINE_SMTP_PASSWORD: z.string().optional(),
   DRIFTLINE_MAIL_FROM: z.string().default('Driftline <driftline@localhost>'),
+  DRIFTLINE_BACKUP_KEEP: z.coerce.number().int().min(1).max(365).default(7),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -48,6 +49,8 @@ export interface Config {
   webDir: string;
   smtp: { host: string | null; port: number; secure: boolean; user?: string; password?: string; from: string };
   logLevel: string;
+  /** Nightly database backups kept in `<dataDir>/backups` (the newest ones; product default 7). */
+  backupKeep: number;
   /** Failed sign-in attempts allowed per 15 minutes: per address and per account. */
   signInLimits: { perAddress: number; perAccount: number };
 }
@@ -83,6 +86,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       from: e.DRIFTLINE_MAIL_FROM,
     },
     logLevel: e.LOG_LEVEL,
+    backupKeep: e.DRIFTLINE_BACKUP_KEEP,
     signInLimits: { perAddress: 30, perAccount: 8 },
   };
 }
@@ -104,6 +108,7 @@ export function testConfig(overrides: Partial<Config> = {}): Config {
     webDir: path.resolve('dist/web'),
     smtp: { host: null, port: 2525, secure: false, from: 'Driftline <driftline@localhost>' },
     logLevel: 'silent',
+    backupKeep: 7,
     signInLimits: { perAddress: 1000, perAccount: 1000 },
     ...overrides,
   };

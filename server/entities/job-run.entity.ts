@@ -1,6 +1,6 @@
 import { Column, Entity, Index, PrimaryColumn } from 'typeorm';
 
-export type JobName = 'detection' | 'retention' | 'report';
+export type JobName = 'detection' | 'retention' | 'report' | 'backup';
 
 /** One run of a scheduled or manually started job. */
 @Entity({ name: 'job_runs' })

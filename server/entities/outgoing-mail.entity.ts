@@ -75,4 +75,8 @@ export class OutgoingMail {
 
   @Column({ type: 'text', name: 'report_id', nullable: true })
   reportId: string | null;
+
+  /** Extra header lines, name → value (e.g. List-Unsubscribe); null when the mail has none. */
+  @Column({ type: 'simple-json', nullable: true })
+  headers: Record<string, string> | null;
 }

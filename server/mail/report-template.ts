@@ -27,6 +27,8 @@ export interface ReportView {
   intro: string;
   sites: ReportSiteView[];
   appLink: string;
+  /** The app's read-only page of these figures. */
+  reportLink: string;
   /** The recipient's own unsubscribe link; null in the app's preview. */
   unsubscribeLink: string | null;
 }
@@ -47,6 +49,7 @@ const MJML = `<mjml>
         <mj-text font-size="18px" font-weight="bold" color="#0f4c5c">Driftline</mj-text>
         <mj-text font-size="22px" line-height="28px" font-weight="bold">Map health in {{monthLabel}}</mj-text>
         <mj-text color="#5b6b75">{{organization}} · {{intro}}</mj-text>
+        <mj-text><a href="{{reportLink}}" style="color: #0f4c5c; font-weight: bold;">Read these figures in Driftline</a></mj-text>
       </mj-column>
     </mj-section>
 {{#each sites}}
@@ -95,6 +98,7 @@ const MJML = `<mjml>
 
 const TEXT = `Map health in {{monthLabel}} — {{organization}}
 {{intro}}
+Read these figures in Driftline: {{reportLink}}
 {{#each sites}}
 
 == {{name}} ==

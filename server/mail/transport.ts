@@ -9,6 +9,8 @@ export interface OutgoingMessage {
   html: string;
   text: string;
   messageId: string;
+  /** Extra header lines, name → value (List-Unsubscribe, List-Unsubscribe-Post). */
+  headers: Record<string, string>;
   attachments: Array<{ filename: string; contentType: string; cid?: string; content: Buffer }>;
 }
 
@@ -44,6 +46,7 @@ export function smtpTransport(smtp: Config['smtp']): MailTransport {
         html: m.html,
         text: m.text,
         messageId: m.messageId,
+        headers: m.headers,
         attachments: m.attachments.map((a) => ({ filename: a.filename, contentType: a.contentType, cid: a.cid, content: a.content })),
       });
     },

@@ -1,4 +1,4 @@
-import { Router } from 'express';
+import express, { Router } from 'express';
 import { z } from 'zod';
 import { actorOf, authenticate, requireRole } from '../middleware/authenticate.js';
 import { validate } from '../middleware/validate.js';
@@ -30,24 +30,30 @@ export function recipientsRoutes(services: Services) {
   return router;
 }
 
-const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+/** The body of an unsubscribe POST: empty from the app's page, or RFC 8058's `List-Unsubscribe=One-Click` from a mail client. */
+const unsubscribeBody = z.strictObject({ 'List-Unsubscribe': z.literal('One-Click', { error: 'must be One-Click (RFC 8058)' }).optional() }).optional();
 
-/** /api/unsubscribe/:token: the signed link in every report mail; public, records the unsubscribe, answers a small page (or JSON when asked). */
+/**
+ * /api/unsubscribe/:token: the signed link of every report mail; public, no session. GET only
+ * reads whom the link names (mail scanners open links, so opening one must change nothing) and
+ * sends a browser to the app's page `/unsubscribe/:token`, which asks before it acts; POST
+ * records the unsubscribe, from that page or as the one-click POST a mail client makes for the
+ * List-Unsubscribe header (RFC 8058, a form body `List-Unsubscribe=One-Click`).
+ */
 export function unsubscribeRoutes(services: Services) {
   const router = Router();
-  router.get('/:token', validate({ params: z.object({ token }) }), async (req, res) => {
-    const done = await services.recipients.unsubscribe(res.locals.params.token);
-    if (!req.accepts('html') || req.accepts(['json', 'html']) === 'json') {
-      res.json(done);
+  const params = validate({ params: z.object({ token }) });
+
+  router.get('/:token', params, async (req, res) => {
+    if (req.accepts(['json', 'html']) === 'html') {
+      res.redirect(303, `/unsubscribe/${encodeURIComponent(res.locals.params.token)}`);
       return;
     }
-    res.type('html').send(
-      `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>Unsubscribed · Driftline</title></head>` +
-        `<body style="font-family: system-ui, sans-serif; max-width: 36rem; margin: 4rem auto; padding: 0 1rem; color: #1d2733;">` +
-        `<h1 style="font-size: 1.4rem;">You are unsubscribed</h1>` +
-        `<p>${escapeHtml(done.email)} will no longer receive the monthly map health report of ${escapeHtml(done.organization)}.</p>` +
-        `<p style="color: #5b6673;">Ask a site manager of your organization if you want it again.</p></body></html>`,
-    );
+    res.json(await services.recipients.describe(res.locals.params.token));
+  });
+
+  router.post('/:token', express.urlencoded({ extended: false, limit: '1kb' }), params, validate({ body: unsubscribeBody }), async (_req, res) => {
+    res.json(await services.recipients.unsubscribe(res.locals.params.token));
   });
   return router;
 }
@@ -55,8 +61,8 @@ export function unsubscribeRoutes(services: Services) {
 const monthParams = z.object({ orgId: id, month: z.string().regex(/^\d{4}-(0[1-9]|1[0-2])$/, 'must be a month written YYYY-MM') });
 
 /**
- * /api/organizations/:orgId/reports: history and preview for admins and the organization's site
- * managers; its viewers read the reports that were sent; admins send a month's report now.
+ * /api/organizations/:orgId/reports: history, preview and a month's figures for admins and the
+ * organization's site managers; its viewers read the reports that were sent; admins send a month's report now.
  */
 export function reportsRoutes(services: Services) {
   const router = Router({ mergeParams: true });
@@ -64,6 +70,10 @@ export function reportsRoutes(services: Services) {
 
   router.get('/', validate({ params: orgParams }), async (_req, res) => {
     res.json(await services.reports.history(actorOf(res), res.locals.params.orgId));
+  });
+
+  router.get('/:month', validate({ params: monthParams }), async (_req, res) => {
+    res.json(await services.reports.figuresView(actorOf(res), res.locals.params.orgId, res.locals.params.month));
   });
 
   router.get('/:month/preview', validate({ params: monthParams }), async (_req, res) => {

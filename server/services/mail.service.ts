@@ -25,6 +25,8 @@ export interface MailInput {
   text: string;
   attachments?: Array<{ filename: string; contentType: string; content: Buffer; cid?: string }>;
   reportId?: string | null;
+  /** Extra header lines, name → value; kept with the row so every attempt sends the same ones. */
+  headers?: Record<string, string>;
 }
 
 function mailView(m: OutgoingMail) {
@@ -104,6 +106,7 @@ export class MailService {
           sentAt: null,
           messageId: `<${id}@${domain}>`,
           reportId: m.reportId ?? null,
+          headers: m.headers && Object.keys(m.headers).length > 0 ? m.headers : null,
         })
         .orIgnore()
         .execute();
@@ -170,6 +173,7 @@ export class MailService {
         html: mail.html,
         text: mail.text,
         messageId: mail.messageId,
+        headers: mail.headers ?? {},
         attachments: mail.attachments.map((a) => ({ filename: a.filename, contentType: a.contentType, cid: a.cid, content: Buffer.from(a.contentBase64, 'base64') })),
       });
     } catch (err) {

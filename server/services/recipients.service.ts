@@ -100,25 +100,45 @@ export class RecipientsService {
     return (await this.db.getRepository(Recipient).find({ where: { organizationId }, order: { email: 'ASC' } })).filter((r) => r.unsubscribedAt === null);
   }
 
-  /** The link a report mail carries for its recipient. */
+  /** The page a report mail links to for its recipient: it shows whom the link names and asks before it unsubscribes. */
   unsubscribeLink(recipientId: string): string {
+    return `${this.baseUrl}/unsubscribe/${unsubscribeToken(this.secret, recipientId)}`;
+  }
+
+  /** The address a mail client POSTs to for a one-click unsubscribe (the List-Unsubscribe header, RFC 8058). */
+  oneClickLink(recipientId: string): string {
     return `${this.baseUrl}/api/unsubscribe/${unsubscribeToken(this.secret, recipientId)}`;
   }
 
-  /** Records an unsubscribe from a signed link (no sign-in); a second visit keeps the first date. */
-  async unsubscribe(token: string, now = new Date()) {
+  /** The recipient a signed link names (400 when the signature does not hold, 404 when the recipient was removed). */
+  private async byToken(token: string) {
     const id = readUnsubscribeToken(this.secret, token);
     if (!id) throw badRequest('This unsubscribe link is not valid. Copy the whole link from the e-mail.');
     const r = await this.db.getRepository(Recipient).findOne({ where: { id }, relations: { organization: true } });
-    if (!r) throw notFound('The recipient');
-    if (!r.unsubscribedAt) {
+    if (!r) throw notFound('The recipient of this link');
+    return r;
+  }
+
+  /** Whom a signed link names and whether they already unsubscribed; reading it changes nothing (link scanners open links). */
+  async describe(token: string) {
+    const r = await this.byToken(token);
+    return { email: r.email, organization: r.organization.name, unsubscribedAt: r.unsubscribedAt?.toISOString() ?? null };
+  }
+
+  /** Records an unsubscribe from a signed link (no sign-in); a second one keeps the first date and says so. */
+  async unsubscribe(token: string, now = new Date()) {
+    const r = await this.byToken(token);
+    const already = r.unsubscribedAt !== null;
+    if (!already) {
       await this.db.transaction(async (m) => {
-        await m.update(Recipient, r.id, { unsubscribedAt: now });
+        // Guarded on the column so that two requests at once record and audit one unsubscribe.
+        const done = await m.createQueryBuilder().update(Recipient).set({ unsubscribedAt: now }).where('id = :id AND unsubscribed_at IS NULL', { id: r.id }).execute();
+        if (done.affected !== 1) return;
         await this.audit.record(null, { action: 'recipient.unsubscribe', targetType: 'report_recipient', targetId: r.id, organizationId: r.organizationId, summary: `${r.email} unsubscribed from the monthly report of ${r.organization.name}.` }, m);
       });
-      r.unsubscribedAt = now;
     }
-    return { email: r.email, organization: r.organization.name, unsubscribedAt: r.unsubscribedAt.toISOString() };
+    const after = await this.db.getRepository(Recipient).findOneByOrFail({ id: r.id });
+    return { email: r.email, organization: r.organization.name, unsubscribedAt: after.unsubscribedAt!.toISOString(), already };
   }
 }
 

@@ -21,6 +21,9 @@ const MAP_IMAGE_SIDE = 560;
 
 type MapImage = { cid: string; filename: string; contentBase64: string };
 
+/** The content id of a site's map picture in the mail. */
+const mapCid = (siteId: string) => `map-${siteId}@driftline`;
+
 const pct = (v: number | null) => (v === null ? 'no scans' : `${v.toFixed(1)} %`);
 const m2 = (v: number) => `${v.toFixed(v < 10 ? 1 : 0)} m²`;
 
@@ -91,11 +94,16 @@ export class ReportsService {
     for (const s of figures.sites) {
       const png = await this.mapImage(s);
       if (!png) continue;
-      const cid = `map-${s.id}@driftline`;
+      const cid = mapCid(s.id);
       cids.set(s.id, cid);
       images.push({ cid, filename: `${s.name.replace(/[^A-Za-z0-9]+/g, '-').toLowerCase()}-map.png`, contentBase64: png.toString('base64') });
     }
     return { figures, images, cids };
+  }
+
+  /** The app's read-only page of an organization's month, the report's link into the app. */
+  reportLink(organizationId: string, month: string) {
+    return `${this.baseUrl}/reports/${encodeURIComponent(organizationId)}/${month}`;
   }
 
   private async render(figures: ReportFigures, cids: Map<string, string>, unsubscribeLink: string | null) {
@@ -107,6 +115,7 @@ export class ReportsService {
       intro: sites === 0 ? 'No sites yet.' : `${sites} site${sites === 1 ? '' : 's'}, calendar month in ${tz}.`,
       sites: figures.sites.map((s) => siteView(s, cids.get(s.id) ?? null, tz)),
       appLink: `${this.baseUrl}/`,
+      reportLink: this.reportLink(figures.organization.id, figures.month),
       unsubscribeLink,
     });
   }
@@ -155,7 +164,9 @@ export class ReportsService {
     for (const r of recipients) {
       const dedupeKey = `report:${report.id}:${r.id}`;
       const { html, text } = await this.render(figures, cids, this.recipients.unsubscribeLink(r.id));
-      const { created } = await this.mail.enqueue({ dedupeKey, kind: 'report', organizationId, to: { email: r.email, name: r.name || null }, subject: this.subject(figures), html, text, attachments, reportId: report.id });
+      // One-click unsubscribe for mail clients (RFC 8058 §3.1, with the List-Unsubscribe header of RFC 2369): a POST to the API address.
+      const headers = { 'List-Unsubscribe': `<${this.recipients.oneClickLink(r.id)}>`, 'List-Unsubscribe-Post': 'List-Unsubscribe=One-Click' };
+      const { created } = await this.mail.enqueue({ dedupeKey, kind: 'report', organizationId, to: { email: r.email, name: r.name || null }, subject: this.subject(figures), html, text, attachments, reportId: report.id, headers });
       if (created) queued++;
     }
     if (recipients.length > 0 && report.status !== 'sent') await this.db.getRepository(MonthlyReport).update(report.id, { status: 'sent', sentAt: now });
@@ -209,29 +220,61 @@ export class ReportsService {
     };
   }
 
-  /** The report of a past month for the app: the stored one when it exists, else rendered now from the figures (not stored). */
-  async preview(actor: Actor, organizationId: string, month: string, now = new Date()) {
+  /** A past month's report as the actor may read it: the stored one when it exists, else built now from the figures (not stored). */
+  private async month(actor: Actor, organizationId: string, month: string, now: Date) {
     const org = await this.readable(actor, organizationId);
     monthBounds(month, org.timezone);
     if (!monthIsPast(month, org.timezone, now)) throw badRequest(`${month} has not ended yet in ${org.timezone}; pick an earlier month.`);
     const stored = await this.db.getRepository(MonthlyReport).findOneBy({ organizationId: org.id, month });
     if (actor.role === 'viewer' && stored?.status !== 'sent') throw notFound('A sent report of that month');
-    let figures: ReportFigures;
-    let html: string;
-    let text: string;
-    let images: MapImage[];
     if (stored && stored.status !== 'generating' && stored.html && stored.text) {
-      figures = stored.figures as ReportFigures;
-      ({ html, text } = stored);
-      images = stored.mapImages ?? [];
-    } else {
-      const built = await this.build(org, month);
-      ({ figures, images } = built);
-      ({ html, text } = await this.render(built.figures, built.cids, null));
+      return { stored, figures: stored.figures as ReportFigures, html: stored.html, text: stored.text, images: stored.mapImages ?? [] };
     }
+    const built = await this.build(org, month);
+    return { stored, figures: built.figures, images: built.images, ...(await this.render(built.figures, built.cids, null)) };
+  }
+
+  /** The report of a past month for the app's preview frame: subject, HTML with its pictures as data addresses, text and figures. */
+  async preview(actor: Actor, organizationId: string, month: string, now = new Date()) {
+    const read = await this.month(actor, organizationId, month, now);
+    const { stored, figures, text, images } = read;
+    let { html } = read;
     // The app's frame has no mail client: inline pictures become data addresses.
     for (const i of images) html = html.split(`cid:${i.cid}`).join(`data:image/png;base64,${i.contentBase64}`);
     return { month, status: stored?.status ?? null, report: stored ? this.view(stored) : null, subject: this.subject(figures), html, text, figures };
+  }
+
+  /**
+   * The same figures as the month's mail, for the app's read-only page: per site the score, its
+   * change, the weekly agreement, the facts and the map picture (a data address), nothing to send.
+   */
+  async figuresView(actor: Actor, organizationId: string, month: string, now = new Date()) {
+    const { stored, figures, images } = await this.month(actor, organizationId, month, now);
+    const tz = figures.organization.timezone;
+    const pictures = new Map(images.map((i) => [i.cid, `data:image/png;base64,${i.contentBase64}`]));
+    return {
+      month,
+      monthLabel: figures.monthLabel,
+      organization: figures.organization,
+      report: stored ? this.view(stored) : null,
+      subject: this.subject(figures),
+      sites: figures.sites.map((s) => ({
+        id: s.id,
+        name: s.name,
+        score: s.score,
+        previousScore: s.previousScore,
+        change: s.change,
+        returns: s.returns,
+        weeks: weeklyScores(s.daily, tz),
+        openZones: s.openZones,
+        changedAreaM2: s.changedAreaM2,
+        remapsDone: s.remapsDone,
+        remapsPlanned: s.remapsPlanned,
+        scannerFlags: s.scannerFlags,
+        docking: s.docking,
+        mapImage: pictures.get(mapCid(s.id)) ?? null,
+      })),
+    };
   }
 
   view(r: Pick<MonthlyReport, 'id' | 'organizationId' | 'month' | 'status' | 'generatedAt' | 'sentAt'>) {

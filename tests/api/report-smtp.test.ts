@@ -5,6 +5,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { DailyStat, Organization, Recipient, Robot, Site } from '../../server/entities/index.js';
 import { newId } from '../../server/services/ids.js';
+import { reportJob } from '../../jobs/report.job.js';
 import { insertZone, roomMap } from './helpers/fixtures.js';
 import { actorByEmail, ADMIN_EMAIL } from './helpers/remap-fixtures.js';
 import { createTestApp, signIn, type TestApp } from './helpers/test-app.js';
@@ -89,8 +90,23 @@ describe('monthly report over SMTP', () => {
     const link = t.services.recipients.unsubscribeLink(recipient.id);
     expect(ops.text).toContain(`Unsubscribe: ${link}`);
     expect(ops.html).toContain(link);
+    // The link into the app opens the read-only page of the same month.
+    const reportLink = `${t.config.baseUrl}/reports/${orgId}/2026-11`;
+    expect(ops.text).toContain(`Read these figures in Driftline: ${reportLink}`);
+    expect(ops.html).toContain(reportLink);
 
-    expect((await request(t.app).get(new URL(link).pathname)).status).toBe(200);
+    // One-click unsubscribe headers (RFC 8058 §3.1; List-Unsubscribe of RFC 2369 §3.2), as mailparser@3.14.2 reads them.
+    const oneClick = t.services.recipients.oneClickLink(recipient.id);
+    const line = (key: string) => ops.headerLines.find((h) => h.key === key)?.line.replace(/\r?\n[ \t]+/g, ' ');
+    expect(line('list-unsubscribe')).toBe(`List-Unsubscribe: <${oneClick}>`);
+    expect(line('list-unsubscribe-post')).toBe('List-Unsubscribe-Post: List-Unsubscribe=One-Click');
+    expect((ops.headers.get('list') as { unsubscribe?: { url?: string } }).unsubscribe?.url).toBe(oneClick);
+
+    // Opening the link (as a link scanner would) changes nothing; the mail client's one-click POST unsubscribes.
+    expect((await request(t.app).get(new URL(oneClick).pathname).set('Accept', 'application/json')).body.unsubscribedAt).toBeNull();
+    expect((await t.dataSource.getRepository(Recipient).findOneByOrFail({ id: recipient.id })).unsubscribedAt).toBeNull();
+    const post = await request(t.app).post(new URL(oneClick).pathname).type('form').send('List-Unsubscribe=One-Click');
+    expect(post.status).toBe(200);
     expect((await t.dataSource.getRepository(Recipient).findOneByOrFail({ id: recipient.id })).unsubscribedAt).not.toBeNull();
 
     // The next month's report goes to the other recipient only; re-sending November adds nothing.
@@ -103,5 +119,26 @@ describe('monthly report over SMTP', () => {
     const december = await simpleParser(received[2].raw);
     expect(december.subject).toBe('Map health in December 2026 · Pellworth Grocers');
     expect(received[2].to).toEqual(['quality@pellworth.example']);
+  });
+
+  it('when the monthly job runs twice on the 1st, then each recipient receives that month’s report once', async () => {
+    const before = received.length;
+    const firstOfFebruary = new Date('2027-02-01T07:30:00Z');
+    vi.setSystemTime(firstOfFebruary);
+    const first = await reportJob({ services: t.services }, firstOfFebruary);
+    const second = await reportJob({ services: t.services }, new Date('2027-02-01T08:30:00Z'));
+    await deliver(before + 1);
+    await t.services.mail.deliverDue(new Date());
+    await new Promise((r) => setTimeout(r, 100));
+    expect(first?.status).toBe('succeeded');
+    // The demo's customers are due as well, with nobody on their lists.
+    const sent = (first?.figures as { reports: Array<{ organization: string; month: string; queued: number }> }).reports;
+    expect(sent.find((r) => r.organization === 'Pellworth Grocers')).toEqual({ organization: 'Pellworth Grocers', month: '2027-01', queued: 1 });
+    expect(sent.reduce((a, r) => a + r.queued, 0)).toBe(1);
+    // Nothing is due the second time, so the hourly check records no run and queues nothing.
+    expect(second).toBeNull();
+    const january = await Promise.all(received.slice(before).map((r) => simpleParser(r.raw)));
+    expect(january.map((m) => m.subject)).toEqual(['Map health in January 2027 · Pellworth Grocers']);
+    expect(received[before].to).toEqual(['quality@pellworth.example']);
   });
 });

@@ -4,7 +4,7 @@ import { DailyStat, MonthlyReport, Organization, OutgoingMail, Recipient, Robot,
 import { newId } from '../../server/services/ids.js';
 import { insertZone, roomMap } from './helpers/fixtures.js';
 import { actorByEmail, ADMIN_EMAIL } from './helpers/remap-fixtures.js';
-import { createTestApp, signIn, type TestApp } from './helpers/test-app.js';
+import { createTestApp, demoIds, signIn, type TestApp } from './helpers/test-app.js';
 
 // Monthly reports of a hand-made customer: generated once per (organization, month), queued once per
 // recipient under its dedupe key, resumed after a stop between generating and sending, and never
@@ -108,7 +108,7 @@ describe('monthly reports', () => {
   it('rebuilds a report left half-made and leaves out a recipient who unsubscribed', async () => {
     const [quality] = await t.dataSource.getRepository(Recipient).findBy({ email: 'quality@pellworth.example' });
     const token = t.services.recipients.unsubscribeLink(quality.id).split('/').pop();
-    expect((await request(t.app).get(`/api/unsubscribe/${token}`)).status).toBe(200);
+    expect((await request(t.app).post(`/api/unsubscribe/${token}`).send({})).status).toBe(200);
     await reports().insert({ id: newId(), organizationId: orgId, month: '2026-10', status: 'generating', html: null, text: null, mapImages: null, generatedAt: null, sentAt: null });
     const sent = await t.services.reports.send(orgId, '2026-10');
     expect(sent).toMatchObject({ recipients: 1, queued: 1, report: { status: 'sent' } });
@@ -156,6 +156,47 @@ describe('monthly report job', () => {
       expect(await t.dataSource.getRepository(OutgoingMail).countBy({ kind: 'report' })).toBe(1);
     } finally {
       await t.close();
+    }
+  });
+});
+
+describe('a month’s figures for the read-only page', () => {
+  it('when a viewer opens a sent month, then they read the figures of the mail; another organization and an unsent month stay hidden', async () => {
+    vi.useFakeTimers({ now: NOW, toFake: ['Date'] });
+    const t = await createTestApp();
+    try {
+      const ids = await demoIds(t.dataSource);
+      const owen = await signIn(t.app, 'owen.viewer@ambergate.example', 'demo-viewer-2026');
+      const priya = await signIn(t.app, 'priya.manager@corvane.example', 'demo-manager-2026');
+      const path = `/api/organizations/${ids.ambergate}/reports/2026-11`;
+      // Not sent yet: a viewer reads sent reports only.
+      expect((await request(t.app).get(path).set('Cookie', owen)).status).toBe(404);
+      await t.services.recipients.add(ids.admin, ids.ambergate, { email: 'owen.viewer@ambergate.example' });
+      await t.services.reports.send(ids.ambergate, '2026-11');
+
+      const res = await request(t.app).get(path).set('Cookie', owen);
+      expect(res.status).toBe(200);
+      const stored = await t.dataSource.getRepository(MonthlyReport).findOneByOrFail({ organizationId: ids.ambergate, month: '2026-11' });
+      const figures = stored.figures as { sites: Array<{ id: string; name: string; score: number | null; change: number | null; changedAreaM2: number }> };
+      expect(res.body).toMatchObject({ month: '2026-11', monthLabel: 'November 2026', organization: { id: ids.ambergate, name: 'Ambergate Provisions' }, report: { status: 'sent' } });
+      expect(res.body.sites.map((s: { name: string }) => s.name)).toEqual(['Fennick Cross DC', 'Tarrow Heath Cold Store']);
+      for (const [k, s] of figures.sites.entries()) {
+        expect(res.body.sites[k]).toMatchObject({ id: s.id, score: s.score, change: s.change, changedAreaM2: s.changedAreaM2 });
+        expect(res.body.sites[k].weeks).toHaveLength(5);
+      }
+      // The mail the viewer received carries the link to this page.
+      const [mail] = await t.dataSource.getRepository(OutgoingMail).findBy({ reportId: stored.id });
+      expect(mail.text).toContain(`Read these figures in Driftline: ${t.config.baseUrl}/reports/${ids.ambergate}/2026-11`);
+      expect(mail.headers).toEqual({ 'List-Unsubscribe': `<${t.services.recipients.oneClickLink((await t.dataSource.getRepository(Recipient).findOneByOrFail({ organizationId: ids.ambergate })).id)}>`, 'List-Unsubscribe-Post': 'List-Unsubscribe=One-Click' });
+
+      expect((await request(t.app).get(path).set('Cookie', priya)).status).toBe(404);
+      expect((await request(t.app).get(`/api/organizations/${ids.ambergate}/reports/2026-10`).set('Cookie', owen)).status).toBe(404);
+      const bad = await request(t.app).get(`/api/organizations/${ids.ambergate}/reports/2026-13`).set('Cookie', owen);
+      expect(bad.status).toBe(400);
+      expect(bad.body.error.message).toMatch(/YYYY-MM/);
+    } finally {
+      await t.close();
+      vi.useRealTimers();
     }
   });
 });

@@ -76,9 +76,13 @@ const CASES: Case[] = [
   { route: 'DELETE /api/organizations/:orgId/recipients/:recipientId', expect: reportKeepers(204), prepare: async (c) => ({ path: `/api/organizations/${c.ids.ambergate}/recipients/${(await newRecipient(c)).id}` }) },
   { route: 'GET /api/organizations/:orgId/reports', expect: { ...reportKeepers(200), viewer: 200 }, prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/reports` }) },
   // Viewers read sent reports only; last month's was not sent here.
+  // The read-only figures page: like the preview, viewers read a sent month only.
+  { route: 'GET /api/organizations/:orgId/reports/:month', expect: { ...reportKeepers(200), viewer: 404 }, prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/reports/${lastMonth()}` }) },
   { route: 'GET /api/organizations/:orgId/reports/:month/preview', expect: { ...reportKeepers(200), viewer: 404 }, prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/reports/${lastMonth()}/preview` }) },
   { route: 'POST /api/organizations/:orgId/reports/:month/send', expect: adminOnly(200), body: () => ({}), prepare: (c) => ({ path: `/api/organizations/${c.ids.ambergate}/reports/${lastMonth()}/send` }) },
-  { route: 'GET /api/unsubscribe/:token', expect: all(200), prepare: async (c) => ({ path: new URL(c.t.services.recipients.unsubscribeLink((await newRecipient(c)).id)).pathname }) },
+  // Public: the signed token is the authority; GET only reads whom it names, POST unsubscribes (RFC 8058 one-click).
+  { route: 'GET /api/unsubscribe/:token', expect: all(200), prepare: async (c) => ({ path: new URL(c.t.services.recipients.oneClickLink((await newRecipient(c)).id)).pathname }) },
+  { route: 'POST /api/unsubscribe/:token', expect: all(200), body: () => ({}), prepare: async (c) => ({ path: new URL(c.t.services.recipients.oneClickLink((await newRecipient(c)).id)).pathname }) },
   { route: 'GET /api/sites', expect: signedIn(200) },
   { route: 'POST /api/sites', expect: adminOnly(201), body: (c) => ({ name: `Matrix Site ${c.who} ${c.n}`, city: 'Nowhere', timezone: 'Europe/London', organizationId: c.ids.ambergate }) },
   { route: 'GET /api/sites/:siteId', expect: signedIn(200), prepare: (c) => ({ path: `/api/sites/${c.ids.ambergateSite}` }) },

@@ -25,11 +25,13 @@ import { CapturedMail } from './captured-mail.entity.js';
 import { OutgoingMail } from './outgoing-mail.entity.js';
 import { MonthlyReport } from './monthly-report.entity.js';
 import { Recipient } from './recipient.entity.js';
+import { PasswordResetToken } from './password-reset-token.entity.js';
 
 export { AgreementBlocks, AuditEvent, DailyStat, EvidenceChunk, HourlyTraffic, Invitation, JobRun, MapVersion, Organization, PoseTrail, RemapRequest, RemapRequestZone, Robot, RobotFlag, RobotToken, ScanBatch, ScanSample, Session, Site, User, Zone };
 export { DockingBatch, DockingResult, DockingStation };
 export { CapturedMail, OutgoingMail };
 export { MonthlyReport, Recipient };
+export { PasswordResetToken };
 
 /** Every entity class, passed to the DataSource as classes (not globs). */
-export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic, DockingStation, DockingBatch, DockingResult, RemapRequest, RemapRequestZone, OutgoingMail, CapturedMail, Recipient, MonthlyReport];
+export const entities = [Organization, User, Session, Invitation, Site, Robot, RobotToken, AuditEvent, MapVersion, ScanBatch, EvidenceChunk, DailyStat, AgreementBlocks, ScanSample, Zone, RobotFlag, JobRun, PoseTrail, HourlyTraffic, DockingStation, DockingBatch, DockingResult, RemapRequest, RemapRequestZone, OutgoingMail, CapturedMail, Recipient, MonthlyReport, PasswordResetToken];

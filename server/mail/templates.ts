@@ -50,14 +50,33 @@ The link works once and until {{expires}}.
     mjml: frame(`        <mj-text>Hello {{name}},</mj-text>
         <mj-text>Someone asked to reset the password of your Driftline account {{email}}. If it was you, choose a new password:</mj-text>
 ${button('Choose a new password', '{{link}}')}
-        <mj-text font-size="12px" color="#5b6b75">The link works once and until {{expires}}. If you did not ask for it, ignore this mail; your password stays as it is. Address: {{link}}</mj-text>`),
+        <mj-text font-size="12px" color="#5b6b75">The link works once, for one hour: until {{expires}}. If the button does not open, copy this address into your browser: {{link}}</mj-text>
+        <mj-text font-size="12px" color="#5b6b75">If you did not ask for it, ignore this mail: your password stays as it is. If such mails keep coming, tell {{contact}}.</mj-text>`),
     text: `Hello {{name}},
 
 Someone asked to reset the password of your Driftline account {{email}}. If it was you, choose a new password:
 
 {{link}}
 
-The link works once and until {{expires}}. If you did not ask for it, ignore this mail; your password stays as it is.
+The link works once, for one hour: until {{expires}}.
+
+If you did not ask for it, ignore this mail: your password stays as it is. If such mails keep coming, tell {{contact}}.
+
+--
+{{caution}}`,
+  },
+  password_changed: {
+    mjml: frame(`        <mj-text>Hello {{name}},</mj-text>
+        <mj-text>The password of your Driftline account {{email}} was changed at {{changed}} through a reset link sent to this address. Every device that was signed in has been signed out.</mj-text>
+${button('Sign in', '{{signInLink}}')}
+        <mj-text font-size="12px" color="#5b6b75">If this was not you, tell {{contact}} at once.</mj-text>`),
+    text: `Hello {{name}},
+
+The password of your Driftline account {{email}} was changed at {{changed}} through a reset link sent to this address. Every device that was signed in has been signed out.
+
+Sign in: {{signInLink}}
+
+If this was not you, tell {{contact}} at once.
 
 --
 {{caution}}`,

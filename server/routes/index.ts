@@ -12,6 +12,7 @@ import { jobRunsRoutes } from './job-runs.routes.js';
 import { mapVersionsRoutes } from './map-versions.routes.js';
 import { organizationsRoutes } from './organizations.routes.js';
 import { mailRoutes, outboxRoutes } from './outbox.routes.js';
+import { passwordResetRoutes } from './password-reset.routes.js';
 import { pathsRoutes } from './paths.routes.js';
 import { remapCalendarRoutes, remapsRoutes } from './remaps.routes.js';
 import { recipientsRoutes, reportsRoutes, unsubscribeRoutes } from './reports.routes.js';
@@ -33,6 +34,7 @@ export function routeTable(services: Services, config: Config, db: DataSource, v
   return [
     { path: '/health', router: healthRoutes(db, version, services.demoSeed) },
     { path: '/auth', router: authRoutes(services, config) },
+    { path: '/auth/password-reset', router: passwordResetRoutes(services) },
     { path: '/invitations', router: invitationsRoutes(services) },
     { path: '/users', router: usersRoutes(services) },
     { path: '/organizations', router: organizationsRoutes(services) },

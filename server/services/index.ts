@@ -15,6 +15,7 @@ import { smtpTransport } from '../mail/transport.js';
 import { MapVersionsService } from './map-versions.service.js';
 import { OrganizationsService } from './organizations.service.js';
 import { OutboxService } from './outbox.service.js';
+import { PasswordResetService } from './password-reset.service.js';
 import { PathsService } from './paths.service.js';
 import { RemapsService } from './remaps.service.js';
 import { RecipientsService } from './recipients.service.js';
@@ -62,6 +63,7 @@ export function createServices(db: DataSource, config: Config, sessions: Session
     siteSettings: new SiteSettingsService(db, sites, audit),
     users: new UsersService(db, sessions, audit),
     invitations: new InvitationsService(db, audit, config.baseUrl, log, mail),
+    passwordReset: new PasswordResetService(db, sessions, audit, mail, config.baseUrl, log),
     organizations: new OrganizationsService(db, audit),
     robots,
     docking,

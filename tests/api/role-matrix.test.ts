@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Robot, RobotFlag } from '../../server/entities/index.js';
+import { OutgoingMail, Robot, RobotFlag } from '../../server/entities/index.js';
 import { listRoutes } from '../../server/routes/index.js';
 import { previousMonth } from '../../server/services/report-figures.service.js';
 import { insertZone, roomMap, scanLine } from './helpers/fixtures.js';
@@ -53,6 +53,15 @@ const lastMonth = () => previousMonth('Europe/London', new Date());
 async function newRecipient(c: Ctx) {
   return c.t.services.recipients.add(operator(c), c.ids.ambergate, { email: `mx-${c.who}-${c.n}-${crypto.randomUUID().slice(0, 8)}@ambergate.example` });
 }
+/** A reset link of a new user (joined through an invitation), read from the queued reset mail. */
+async function newResetToken(c: Ctx) {
+  const invitation = await newInvitation(c);
+  await c.t.services.invitations.accept(invitation.link.split('/').pop()!, 'a-long-enough-password');
+  const email = `matrix-${c.who}-${c.n}@ambergate.example`;
+  await c.t.services.passwordReset.request(email, null);
+  const mail = await c.t.dataSource.getRepository(OutgoingMail).findOneByOrFail({ toEmail: email, kind: 'password_reset' });
+  return /\/reset\/([A-Za-z0-9_-]+)/.exec(mail.text)![1];
+}
 async function newRobot(c: Ctx) {
   return c.t.services.robots.create(operator(c), c.ids.ambergateSite, { name: `MX-${c.who}-${c.n}`, model: 'Matrix test', mounts: [] });
 }
@@ -62,6 +71,10 @@ const CASES: Case[] = [
   { route: 'POST /api/auth/sign-in', expect: all(200), body: () => ({ email: 'priya.manager@corvane.example', password: 'demo-manager-2026' }) },
   { route: 'POST /api/auth/sign-out', expect: all(204), prepare: async (c) => ({ cookie: c.who === 'anon' ? null : await signIn(c.t.app, demoAccount(c.who).email, demoAccount(c.who).password) }) },
   { route: 'GET /api/auth/me', expect: signedIn(200) },
+  // Public: a reset request answers 202 whatever the address; the link's token is the authority for the other two.
+  { route: 'POST /api/auth/password-reset', expect: all(202), body: () => ({ email: 'matrix-nobody@ambergate.example' }) },
+  { route: 'GET /api/auth/password-reset/:token', expect: all(204), prepare: async (c) => ({ path: `/api/auth/password-reset/${await newResetToken(c)}` }) },
+  { route: 'POST /api/auth/password-reset/:token', expect: all(204), body: () => ({ password: 'another-long-enough-password' }), prepare: async (c) => ({ path: `/api/auth/password-reset/${await newResetToken(c)}` }) },
   { route: 'GET /api/invitations', expect: adminOnly(200) },
   { route: 'POST /api/invitations', expect: adminOnly(201), body: (c) => ({ email: `new-${c.who}-${c.n}@ambergate.example`, name: 'New Person', role: 'viewer', organizationId: c.ids.ambergate }) },
   { route: 'DELETE /api/invitations/:id', expect: adminOnly(204), prepare: async (c) => ({ path: `/api/invitations/${(await newInvitation(c)).invitation.id}` }) },

@@ -17,6 +17,7 @@ import { OrganizationsService } from './organizations.service.js';
 import { OutboxService } from './outbox.service.js';
 import { PasswordResetService } from './password-reset.service.js';
 import { PathsService } from './paths.service.js';
+import { RemapNoticesService } from './remap-notices.service.js';
 import { RemapsService } from './remaps.service.js';
 import { RecipientsService } from './recipients.service.js';
 import { ReportFiguresService } from './report-figures.service.js';
@@ -41,7 +42,7 @@ export function createServices(db: DataSource, config: Config, sessions: Session
   const mail = new MailService(db, config.smtp.from, smtpTransport(config.smtp), log);
   // Tests deliver explicitly; the app sends right after queueing.
   mail.promptDelivery = config.env !== 'test';
-  const remaps = new RemapsService(db, sites, mapVersions, health, traffic, audit, log, config.baseUrl);
+  const remaps = new RemapsService(db, sites, mapVersions, health, traffic, audit, log, config.baseUrl, new RemapNoticesService(mail, config.smtp.from));
   const docking = new DockingService(db, sites, audit);
   const reportFigures = new ReportFiguresService(db, health, mapVersions, docking, config.baseUrl);
   const recipients = new RecipientsService(db, audit, config.sessionSecret, config.baseUrl);

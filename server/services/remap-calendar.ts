@@ -16,6 +16,16 @@ export interface RemapCalendarEntry {
   link: string;
   /** Bumped whenever the window changes, so calendar clients replace the earlier entry (RFC 5545 §3.8.7.4). */
   sequence: number;
+  /**
+   * The iTIP method (RFC 5546 §1.4) when the file travels in a notice: REQUEST adds or updates the
+   * entry, CANCEL removes it (the whole event when `cancelled`, else only the attendees named).
+   * Without it the file is the plain download.
+   */
+  method?: 'REQUEST' | 'CANCEL';
+  /** Who sends the scheduling message; RFC 5546 §3.2.2 and §3.2.5 require one ORGANIZER. */
+  organizer?: { name: string; email: string };
+  /** People told for information only (ROLE=NON-PARTICIPANT, RFC 5545 §3.2.16), such as the requester. */
+  observers?: Array<{ name: string; email: string }>;
 }
 
 /**
@@ -23,8 +33,16 @@ export interface RemapCalendarEntry {
  * UTC with a stable UID per request, so a rescheduled or cancelled window updates the same entry.
  */
 export function remapCalendarFile(e: RemapCalendarEntry): string {
+  // RFC 5546 §3.2.5: a CANCEL that only uninvites attendees carries no STATUS.
+  const status = e.cancelled ? 'CANCELLED' : e.method === 'CANCEL' ? undefined : 'CONFIRMED';
+  const attendees = [
+    ...(e.assignee ? [{ name: e.assignee.name, email: e.assignee.email, role: 'REQ-PARTICIPANT' as const, partstat: 'NEEDS-ACTION' as const, rsvp: false }] : []),
+    ...(e.observers ?? []).map((o) => ({ name: o.name, email: o.email, role: 'NON-PARTICIPANT' as const, rsvp: false })),
+  ];
   const { error, value } = createEvent({
     productId: 'driftline/remap-planning',
+    ...(e.method ? { method: e.method } : {}),
+    ...(e.organizer ? { organizer: { name: e.organizer.name, email: e.organizer.email } } : {}),
     uid: `remap-${e.remapId}@driftline`,
     sequence: e.sequence,
     start: e.start.getTime(),
@@ -42,8 +60,8 @@ export function remapCalendarFile(e: RemapCalendarEntry): string {
       'Driftline informs map maintenance; the site’s safety assessment and local rules for driving robots near people apply.',
     ].filter(Boolean).join('\n'),
     url: e.link,
-    status: e.cancelled ? 'CANCELLED' : 'CONFIRMED',
-    attendees: e.assignee ? [{ name: e.assignee.name, email: e.assignee.email, role: 'REQ-PARTICIPANT', partstat: 'NEEDS-ACTION' }] : undefined,
+    ...(status ? { status } : {}),
+    attendees: attendees.length ? attendees : undefined,
   });
   if (error || !value) throw new Error(`The calendar file could not be made: ${error?.message ?? 'no output'}`);
   return foldOctets(value);

@@ -15,7 +15,8 @@ import type { Role } from '../entities/user.entity.js';
 import { ACTIVE_ZONE_STATUSES } from '../entities/zone.entity.js';
 import { badRequest, conflict, forbidden, notFound } from '../http-error.js';
 import type { AuditService } from './audit.service.js';
-import { remapCalendarFile } from './remap-calendar.js';
+import { remapCalendarFile, type RemapCalendarEntry } from './remap-calendar.js';
+import type { RemapNotice, RemapNoticesService } from './remap-notices.service.js';
 import { EvidenceStore } from './evidence-store.js';
 import type { HealthService } from './health.service.js';
 import { newId } from './ids.js';
@@ -116,6 +117,7 @@ export class RemapsService {
     private readonly audit: AuditService,
     private readonly log: Logger,
     private readonly baseUrl: string,
+    private readonly notices: RemapNoticesService,
   ) {
     this.store = new EvidenceStore(db);
   }
@@ -288,6 +290,9 @@ export class RemapsService {
     const tz = site.timezone;
     const when = `${localStamp(start.getTime(), tz)} – ${localStamp(end.getTime(), tz)} (${tz})`;
     const again = remap.status === 'scheduled';
+    // The same window and assignee again (a repeated request) change nothing: no move, no second notice.
+    if (again && remap.windowStart?.getTime() === start.getTime() && remap.windowEnd?.getTime() === end.getTime() && remap.assigneeId === assignee.id) return this.get(actor, site.id, remap.id);
+    const before = { start: remap.windowStart, end: remap.windowEnd, assignee: remap.assignee };
     await this.move(
       actor,
       site,
@@ -296,19 +301,20 @@ export class RemapsService {
       again ? 'remap.reschedule' : 'remap.schedule',
       `${actor.name} ${again ? 'moved' : 'scheduled'} ${ref(remap)} ${again ? 'to' : 'for'} ${when}, assigned to ${assignee.name}.`,
     );
-    return this.get(actor, site.id, remap.id);
+    const noticeSentTo = await this.notify(again ? 'rescheduled' : 'scheduled', site, remap.id, { actorName: actor.name, before });
+    return { ...(await this.get(actor, site.id, remap.id)), noticeSentTo };
   }
 
-  /**
-   * The iCalendar file (RFC 5545) of a request's window, for the assignee's calendar; 409 before the
-   * request has a window. Its SEQUENCE counts the window's changes, so a calendar updates the entry.
-   */
-  async calendarFile(actor: Actor, siteId: string, remapId: string): Promise<{ fileName: string; text: string }> {
-    const { site, remap } = await this.find(actor, siteId, remapId);
-    if (!remap.windowStart || !remap.windowEnd) throw conflict(`${ref(remap)} has no window yet: a mapper schedules it first.`);
-    const moves = await this.db.getRepository(AuditEvent).countBy({ targetType: 'remap_request', targetId: remap.id, action: In(['remap.schedule', 'remap.reschedule', 'remap.cancel']) });
-    const [v] = await this.views([remap]);
-    const text = remapCalendarFile({
+  /** The calendar SEQUENCE of a request: how often its window was set, moved or cancelled, less one (RFC 5545 §3.8.7.4). */
+  private async calendarSequence(remapId: string) {
+    const moves = await this.db.getRepository(AuditEvent).countBy({ targetType: 'remap_request', targetId: remapId, action: In(['remap.schedule', 'remap.reschedule', 'remap.cancel']) });
+    return Math.max(0, moves - 1);
+  }
+
+  /** The calendar entry of a request with a window (relations loaded), as the download and the notices share it. */
+  private calendarEntry(site: Site, remap: RemapRequest, v: RemapView, sequence: number): RemapCalendarEntry | null {
+    if (!remap.windowStart || !remap.windowEnd) return null;
+    return {
       remapId: remap.id,
       label: v.label,
       title: remap.title,
@@ -320,9 +326,42 @@ export class RemapsService {
       totalMinutes: remap.estimate.totalMinutes,
       zoneLabels: v.zones.map((z) => z.label),
       assignee: remap.assignee ? { name: remap.assignee.name, email: remap.assignee.email } : null,
-      link: `${this.baseUrl}/sites/${site.id}/remaps/${remap.id}`,
-      sequence: Math.max(0, moves - 1),
-    });
+      link: this.link(site.id, remap.id),
+      sequence,
+    };
+  }
+
+  private link(siteId: string, remapId: string) {
+    return `${this.baseUrl}/sites/${siteId}/remaps/${remapId}`;
+  }
+
+  /**
+   * Queues the e-mail notices of a committed move (RemapNoticesService) and returns who they go to.
+   * The move stands whatever happens here: a notice that cannot be queued is logged, not thrown.
+   */
+  private async notify(event: RemapNotice['event'], site: Site, remapId: string, extra: Pick<RemapNotice, 'actorName'> & Partial<Pick<RemapNotice, 'before' | 'zones'>>) {
+    try {
+      const remap = await this.db.getRepository(RemapRequest).findOneOrFail({ where: { id: remapId }, relations: RELATIONS });
+      const [v] = await this.views([remap]);
+      const calendar = await this.calendarSequence(remap.id);
+      const action = event === 'verified' ? 'remap.verify' : 'remap.not_fixed';
+      const sequence = event === 'verified' || event === 'not_fixed' ? await this.db.getRepository(AuditEvent).countBy({ targetType: 'remap_request', targetId: remap.id, action }) : calendar;
+      return await this.notices.send({ event, site, remap, calendar: this.calendarEntry(site, remap, v, calendar), sequence, link: this.link(site.id, remap.id), ...extra });
+    } catch (err) {
+      this.log.error({ err, remapId, event }, 'remap notice could not be queued');
+      return [];
+    }
+  }
+
+  /**
+   * The iCalendar file (RFC 5545) of a request's window, for the assignee's calendar; 409 before the
+   * request has a window. Its SEQUENCE counts the window's changes, so a calendar updates the entry.
+   */
+  async calendarFile(actor: Actor, siteId: string, remapId: string): Promise<{ fileName: string; text: string }> {
+    const { site, remap } = await this.find(actor, siteId, remapId);
+    if (!remap.windowStart || !remap.windowEnd) throw conflict(`${ref(remap)} has no window yet: a mapper schedules it first.`);
+    const [v] = await this.views([remap]);
+    const text = remapCalendarFile(this.calendarEntry(site, remap, v, await this.calendarSequence(remap.id))!);
     return { fileName: `driftline-remap-${v.label}.ics`, text };
   }
 
@@ -386,7 +425,8 @@ export class RemapsService {
         await this.audit.record(actor, { action: 'zone.unplan', targetType: 'zone', targetId: z.id, organizationId: site.organizationId, summary: `Z-${z.number} is ${back} again: ${ref(remap)} was cancelled.` }, m);
       }
     });
-    return this.get(actor, site.id, remap.id);
+    const noticeSentTo = await this.notify('cancelled', site, remap.id, { actorName: actor.name });
+    return { ...(await this.get(actor, site.id, remap.id)), noticeSentTo };
   }
 
   private async move(actor: Actor | null, site: Site, remap: RemapRequest, change: RemapChange, action: string, summary: string, manager?: EntityManager) {
@@ -513,6 +553,10 @@ export class RemapsService {
           await this.move(null, site, remap, { status: 'not_fixed', verification }, 'remap.not_fixed', `${ref(remap)} is not fixed: after ${evidenceDays} days of evidence on map version ${active.version}, ${flagging.length} zone${flagging.length === 1 ? '' : 's'} (${flagging.map((z) => `Z-${z.number}`).join(', ')}, ${afterSide.changedAreaM2.toFixed(1)} m²) still flag in its area; agreement ${pct(beforeSide.agreement)} → ${pct(afterSide.agreement)}.`, m);
         }
       });
+      if (state !== 'waiting') {
+        const zones = { resolved: state === 'verified' ? oldZones.filter((z) => z.status === 'planned').map((z) => `Z-${z.number}`) : [], flagging: flagging.map((z) => `Z-${z.number}`) };
+        await this.notify(state, site, remap.id, { actorName: null, zones });
+      }
     }
     if (figures.checked > 0) this.log.info({ site: site.name, ...figures }, 'remap verification ran');
     return figures;

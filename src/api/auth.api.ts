@@ -51,3 +51,18 @@ export async function acceptInvitation(token: string, password: string): Promise
   });
   return body.user;
 }
+
+/** Asks for a password reset link for the address; resolves alike whether or not it has an account. */
+export async function requestPasswordReset(email: string): Promise<void> {
+  await apiRequest<unknown>('/auth/password-reset', { method: 'POST', body: { email }, expectUnauthorized: true });
+}
+
+/** Resolves when a reset link can still set a password; throws the server's 400 sentence when it cannot. */
+export async function checkPasswordResetLink(token: string): Promise<void> {
+  await apiRequest<void>(`/auth/password-reset/${encodeURIComponent(token)}`, { expectUnauthorized: true });
+}
+
+/** Sets a new password through a reset link; every session of the account ends on the server. */
+export async function resetPassword(token: string, password: string): Promise<void> {
+  await apiRequest<void>(`/auth/password-reset/${encodeURIComponent(token)}`, { method: 'POST', body: { password }, expectUnauthorized: true });
+}

@@ -17,6 +17,19 @@ export const routes: RouteRecordRaw[] = [
     meta: { public: true, layout: 'bare', title: 'Accept invitation' },
   },
   {
+    path: '/reset',
+    name: 'password-forgot',
+    component: () => import('@/views/PasswordForgotView.vue'),
+    meta: { public: true, layout: 'bare', title: 'Forgot password' },
+  },
+  {
+    path: '/reset/:token',
+    name: 'password-reset',
+    component: () => import('@/views/PasswordResetView.vue'),
+    props: true,
+    meta: { public: true, layout: 'bare', title: 'Choose a new password' },
+  },
+  {
     path: '/',
     name: 'fleet-overview',
     component: () => import('@/views/FleetOverviewView.vue'),

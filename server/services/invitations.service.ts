@@ -1,7 +1,7 @@
 import type { Logger } from 'pino';
 import { IsNull, MoreThan, type DataSource } from 'typeorm';
 import type { Actor } from '../auth/actor.js';
-import { hashPassword } from '../auth/password.js';
+import { hashPassword, passwordProblem } from '../auth/password.js';
 import { Invitation, Organization, User } from '../entities/index.js';
 import type { Role } from '../entities/user.entity.js';
 import { badRequest, conflict, HttpError, notFound } from '../http-error.js';
@@ -115,6 +115,8 @@ export class InvitationsService {
   /** Creates the user with the chosen password and marks the invitation used; returns the new user. */
   async accept(token: string, password: string) {
     const inv = await this.findOpen(token);
+    const problem = passwordProblem(password, inv.email);
+    if (problem) throw badRequest(`The password ${problem}.`);
     const passwordHash = await hashPassword(password);
     const user = await this.db.transaction(async (m) => {
       // Re-check inside the transaction: two clicks on the same link create one user.

@@ -1,6 +1,6 @@
 import type { DataSource } from 'typeorm';
 import type { Actor } from '../auth/actor.js';
-import { hashPassword, verifyAgainstDummy, verifyPassword } from '../auth/password.js';
+import { hashPassword, passwordProblem, verifyAgainstDummy, verifyPassword } from '../auth/password.js';
 import type { Sessions } from '../auth/sessions.js';
 import { Organization, User } from '../entities/index.js';
 import type { Role, UserStatus } from '../entities/user.entity.js';
@@ -83,6 +83,8 @@ export class UsersService {
       throw new HttpError(401, 'invalid_credentials', 'The current password is not correct.');
     }
     if (currentPassword === newPassword) throw badRequest('The new password must differ from the current one.');
+    const problem = passwordProblem(newPassword, user.email);
+    if (problem) throw badRequest(`The new password ${problem}.`);
     await repo.update(user.id, { passwordHash: await hashPassword(newPassword) });
     const sessions = await this.sessions.getUserSessions(user.id);
     await Promise.all(sessions.filter((s) => s.id !== sessionId).map((s) => this.sessions.invalidateSession(s.id)));

@@ -1,5 +1,5 @@
-import { Router } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import { Router, type Request, type Response } from 'express';
+import { rateLimit, type Options, type RateLimitInfo } from 'express-rate-limit';
 import { z } from 'zod';
 import type { Config } from '../config.js';
 import { HttpError } from '../http-error.js';
@@ -15,8 +15,15 @@ const changePasswordBody = z.strictObject({ currentPassword: z.string().min(1).m
 export function authRoutes(services: Services, config: Config) {
   const router = Router();
   const windowMs = 15 * 60_000;
-  const limited = () => {
-    throw new HttpError(429, 'rate_limited', 'Too many sign-in attempts. Please wait 15 minutes and try again.');
+  // Both limits answer with Retry-After (RFC 9110 §10.2.3): the seconds until the window of the
+  // limit that refused ends, and the sentence says the same wait in minutes.
+  const limited = (req: Request, res: Response, _next: unknown, options: Options) => {
+    const info = (req as unknown as Record<string, RateLimitInfo | undefined>)[options.requestPropertyName];
+    const resetAt = info?.resetTime?.getTime() ?? Date.now() + windowMs;
+    const seconds = Math.max(1, Math.ceil((resetAt - Date.now()) / 1000));
+    const minutes = Math.ceil(seconds / 60);
+    res.setHeader('Retry-After', String(seconds));
+    throw new HttpError(429, 'rate_limited', `Too many sign-in attempts. Please wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again.`);
   };
   // Two limits on failed attempts: per address (guessing many accounts from one place) and per
   // account (one account from many places). Successful sign-ins do not count, so that a whole

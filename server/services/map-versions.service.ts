@@ -3,11 +3,11 @@ import { PNG } from 'pngjs';
 import { Not, type DataSource } from 'typeorm';
 import { diffAreasM2, diffCounts, diffRows, emptyGridDiff, type GridDiff } from '../../shared/grid/diff.js';
 import { distanceTransform, type DistanceField } from '../../shared/grid/distance-transform.js';
-import { GridFormatError } from '../../shared/grid/errors.js';
+import { formatCount, GridFormatError } from '../../shared/grid/errors.js';
 import { RESOLUTION_BOUNDS } from '../../shared/grid/map-kinds.js';
 import { imageToGrid, type GreyImage } from '../../shared/grid/image-to-grid.js';
 import { checkImageName, parseMapMetadata } from '../../shared/grid/map-metadata.js';
-import { parsePgm } from '../../shared/grid/pgm.js';
+import { parsePgm, PGM_MAX_PIXELS, PGM_MAX_SIDE } from '../../shared/grid/pgm.js';
 import { renderDiffTile } from '../../shared/render/diff-tiles.js';
 import { renderGridImage } from '../../shared/render/grid-image.js';
 import { TILE_STYLE } from '../../shared/render/palette.js';
@@ -43,6 +43,15 @@ const DIFF_SLICE_MS = 50;
 function readImage(file: UploadedFile): GreyImage {
   const bytes = file.buffer;
   if (bytes.subarray(0, 4).equals(PNG_MAGIC)) {
+    // The header's size is checked before decoding: a small, highly compressed PNG could
+    // otherwise unpack to gigabytes. Same limits as a PGM.
+    if (bytes.length >= 24) {
+      const width = bytes.readUInt32BE(16);
+      const height = bytes.readUInt32BE(20);
+      if (width > PGM_MAX_SIDE || height > PGM_MAX_SIDE || width * height > PGM_MAX_PIXELS) {
+        throw new GridFormatError(`The PNG header says ${formatCount(width)} × ${formatCount(height)} pixels; Driftline accepts at most ${formatCount(PGM_MAX_SIDE)} pixels per side and ${formatCount(PGM_MAX_PIXELS)} in all.`);
+      }
+    }
     let png: PNG;
     try {
       png = PNG.sync.read(bytes);

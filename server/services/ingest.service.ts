@@ -25,6 +25,8 @@ export const ROBOT_BATCH_MAX_BYTES = 32 * 1024 * 1024;
 export const UPLOAD_MAX_BYTES = 2 * 1024 * 1024 * 1024;
 /** Largest decompressed size of an uploaded log, bytes. */
 const UPLOAD_MAX_INFLATED_BYTES = 8 * 1024 * 1024 * 1024;
+/** Bytes at the start of an uploaded log looked at to tell text from a binary file. */
+const LOG_SNIFF_BYTES = 4096;
 
 function batchView(b: ScanBatch) {
   return {
@@ -225,6 +227,11 @@ export class IngestService {
     try {
       site = await this.sites.getVisible(actor, siteId);
       map = await this.activeMap(site);
+      // Text never holds a NUL byte, while images, archives and other binaries soon do.
+      const head = await readHead(file.path, LOG_SNIFF_BYTES);
+      if (!(head[0] === 0x1f && head[1] === 0x8b) && head.includes(0)) {
+        throw new HttpError(415, 'unsupported_log_type', `"${file.originalname}" is not a scan log: send JSON Lines (.jsonl) or gzip-compressed JSON Lines (.jsonl.gz).`);
+      }
     } catch (e) {
       // A refused upload leaves nothing behind, not even the file.
       await rm(file.path, { force: true });
@@ -356,12 +363,12 @@ export class IngestService {
   }
 }
 
-async function readHead(path: string): Promise<Buffer> {
+async function readHead(path: string, length = 2): Promise<Buffer> {
   const fh = await open(path, 'r');
   try {
-    const buf = Buffer.alloc(2);
-    await fh.read(buf, 0, 2, 0);
-    return buf;
+    const buf = Buffer.alloc(length);
+    const { bytesRead } = await fh.read(buf, 0, length, 0);
+    return buf.subarray(0, bytesRead);
   } finally {
     await fh.close();
   }

@@ -138,6 +138,20 @@ export const routes: RouteRecordRaw[] = [
     meta: { roles: ['admin', 'site_manager', 'viewer'], title: 'Reports' },
   },
   {
+    path: '/reports/:orgId/:month(\\d{4}-\\d{2})',
+    name: 'report-month',
+    component: () => import('@/views/ReportMonthView.vue'),
+    props: true,
+    meta: { roles: ['admin', 'site_manager', 'viewer'], title: 'Monthly report' },
+  },
+  {
+    path: '/unsubscribe/:token',
+    name: 'unsubscribe',
+    component: () => import('@/views/UnsubscribeView.vue'),
+    props: true,
+    meta: { public: true, layout: 'bare', title: 'Unsubscribe' },
+  },
+  {
     path: '/admin',
     component: () => import('@/views/AdminView.vue'),
     meta: { roles: ['admin'], title: 'Admin' },

@@ -50,7 +50,15 @@ function freePort() {
   });
 }
 
-function startServer(port, dataDir) {
+// Its own capture port, so that runs side by side never deliver into each other's outbox; and never
+// a real SMTP host from the caller's environment, so the tests' mail stays in the built-in capture.
+function testEnv(port, smtpPort, dataDir) {
+  const env = { ...process.env, DRIFTLINE_DATA_DIR: dataDir, PORT: String(port), DRIFTLINE_SMTP_PORT: String(smtpPort), HOST: '127.0.0.1', NODE_ENV: 'production', LOG_LEVEL: 'warn' };
+  delete env.DRIFTLINE_SMTP_HOST;
+  return env;
+}
+
+function startServer(port, smtpPort, dataDir) {
   const entry = path.join(root, 'dist', 'node', 'server', 'index.js');
   if (!existsSync(entry)) throw new Error(`The build did not produce ${path.relative(root, entry)}.`);
   // Detached: the server leads its own process group, so everything it starts is stopped with it.
@@ -58,7 +66,7 @@ function startServer(port, dataDir) {
     cwd: root,
     detached: true,
     stdio: ['ignore', 'pipe', 'pipe'],
-    env: { ...process.env, DRIFTLINE_DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', NODE_ENV: 'production', LOG_LEVEL: 'warn' },
+    env: testEnv(port, smtpPort, dataDir),
   });
   const output = [];
   child.stdout.on('data', (chunk) => output.push(chunk.toString()));
@@ -124,6 +132,8 @@ async function main() {
   const dataDir = mkdtempSync(path.join(tmpdir(), 'driftline-e2e-data-'));
   const profileDir = mkdtempSync(path.join(tmpdir(), 'driftline-e2e-profile-'));
   const port = await freePort();
+  let smtpPort = await freePort();
+  while (smtpPort === port) smtpPort = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
   let server;
   let context;
@@ -143,7 +153,7 @@ async function main() {
   process.once('SIGTERM', onSignal);
 
   try {
-    server = startServer(port, dataDir);
+    server = startServer(port, smtpPort, dataDir);
     await waitForHealth(baseUrl, server);
     console.log(`Server ready at ${baseUrl}; running browser tests.`);
 

@@ -12,6 +12,8 @@ Commands:
   simulate   Write a simulated site (stored map, metadata, daily scan logs, ground truth)
              to a folder. Run "simulate --help" for its options.
   analyze    Analyse scan logs against a stored map. Run "analyze --help" for its options.
+  restore    Restore a database backup into the data directory (stop the server first).
+             Run "restore --help" for details.
 
 Options:
   --help     Show this text.
@@ -38,6 +40,7 @@ async function load(specifier: string, exportName: string): Promise<Command | nu
 const COMMANDS: Record<string, { specifier: string; exportName: string }> = {
   simulate: { specifier: './commands/simulate.js', exportName: 'runSimulate' },
   analyze: { specifier: './commands/analyze.js', exportName: 'runAnalyze' },
+  restore: { specifier: './commands/restore.js', exportName: 'runRestore' },
 };
 
 /** Runs the command named in `argv[0]` with the rest of `argv`; resolves to the process exit code (0 ok, 2 bad usage). */

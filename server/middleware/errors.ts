@@ -19,15 +19,20 @@ function fromLibraryError(err: unknown): HttpError | null {
   return null;
 }
 
-/** The one error middleware: `{ error: { code, message, details } }`, never a stack trace. */
-export function errorHandler(err: unknown, _req: Request, res: Response, _next: NextFunction) {
+/**
+ * The one error middleware: `{ error: { code, message, details } }`, never a stack trace. Server
+ * errors (5xx) also carry `requestId`, the X-Request-Id under which pino-http logged them, so that a
+ * person reporting one hands support the key to the log line; every answer has it in its header.
+ */
+export function errorHandler(err: unknown, req: Request, res: Response, _next: NextFunction) {
   const known = err instanceof HttpError ? err : fromLibraryError(err);
+  const requestId = req.id === undefined ? undefined : String(req.id);
   if (!known) {
-    // pino-http logs res.err with the stack; the client gets a sentence only.
+    // pino-http logs res.err with the stack and the request id; the client gets a sentence only.
     res.err = err as Error;
-    res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on the server. It has been logged.' } });
+    res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on the server. It has been logged.', requestId } });
     return;
   }
   if (known.status === 429 || known.status >= 500) res.err = known;
-  res.status(known.status).json({ error: { code: known.code, message: known.message, ...(known.details ? { details: known.details } : {}) } });
+  res.status(known.status).json({ error: { code: known.code, message: known.message, ...(known.details ? { details: known.details } : {}), ...(known.status >= 500 ? { requestId } : {}) } });
 }

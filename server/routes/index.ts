@@ -32,7 +32,7 @@ export interface RouteEntry {
 /** The route table: every API router and where it is mounted. */
 export function routeTable(services: Services, config: Config, db: DataSource, version: string): RouteEntry[] {
   return [
-    { path: '/health', router: healthRoutes(db, version, services.demoSeed) },
+    { path: '/health', router: healthRoutes(services.systemStatus, version, services.demoSeed) },
     { path: '/auth', router: authRoutes(services, config) },
     { path: '/auth/password-reset', router: passwordResetRoutes(services) },
     { path: '/invitations', router: invitationsRoutes(services) },

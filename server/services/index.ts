@@ -3,6 +3,7 @@ import type { DataSource } from 'typeorm';
 import type { Sessions } from '../auth/sessions.js';
 import type { Config } from '../config.js';
 import { AuditService } from './audit.service.js';
+import { BackupService } from './backup.service.js';
 import { DemoSeedProgress } from './demo-seed.service.js';
 import { DetectionService } from './detection.service.js';
 import { DockingService } from './docking.service.js';
@@ -26,6 +27,7 @@ import { RobotsService } from './robots.service.js';
 import { ScannerCheckService } from './scanner-check.service.js';
 import { SiteSettingsService } from './site-settings.service.js';
 import { SitesService } from './sites.service.js';
+import { SystemStatusService } from './system-status.service.js';
 import { TrafficService } from './traffic.service.js';
 import { UsersService } from './users.service.js';
 
@@ -53,6 +55,8 @@ export function createServices(db: DataSource, config: Config, sessions: Session
     scannerCheck,
     detection,
     jobRuns: new JobRunsService(db, detection, log, remaps),
+    backups: new BackupService(db, config, log),
+    systemStatus: new SystemStatusService(db, config.dataDir),
     demoSeed: new DemoSeedProgress(),
     mapVersions,
     paths: new PathsService(db, sites, mapVersions),

@@ -4,6 +4,7 @@ import { LessThan, type DataSource } from 'typeorm';
 import { AgreementBlocks, EvidenceChunk, HourlyTraffic, JobRun, MapVersion, PoseTrail, ScanSample, Site } from '../entities/index.js';
 import type { JobName } from '../entities/job-run.entity.js';
 import { notFound } from '../http-error.js';
+import type { BackupService } from './backup.service.js';
 import type { DetectionService } from './detection.service.js';
 import { newId } from './ids.js';
 import type { RemapsService } from './remaps.service.js';
@@ -83,6 +84,11 @@ export class JobRunsService {
   async report(trigger: Trigger, reports: Pick<ReportsService, 'due' | 'sendDue'>, now = new Date()) {
     if ((await reports.due(now)).length === 0) return null;
     return this.record('report', null, trigger, async () => ({ reports: await reports.sendDue(now) }));
+  }
+
+  /** An online backup of the database into the data directory with rotation (BackupService.create), as one 'backup' run. */
+  async backup(trigger: Trigger, backups: Pick<BackupService, 'create'>, now = new Date()) {
+    return this.record('backup', null, trigger, async () => ({ ...(await backups.create(now)) }));
   }
 
   /** Evidence retention: drops evidence, agreement blocks, scan samples, robot trails and hourly traffic older than each site's retention days. */

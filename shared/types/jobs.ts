@@ -23,3 +23,23 @@ export interface RetentionFigures {
   /** Absent in runs recorded before hourly traffic was kept. */
   hoursDeleted?: number;
 }
+
+/** What a backup run reports: the file made (in `<dataDir>/backups`), its size in bytes and SQLite pages, how long it took in ms, and the rotation. */
+export interface BackupFigures {
+  file: string;
+  bytes: number;
+  pages: number;
+  durationMs: number;
+  integrity: 'ok';
+  /** How many backups the rotation keeps. */
+  keep: number;
+  /** Backups in the folder after the rotation, the one just made first. */
+  kept: string[];
+  /** Older backups the rotation deleted. */
+  removed: string[];
+}
+
+/** What a monthly-report run reports: one entry per organization whose report was due, with the mails queued. */
+export interface ReportRunFigures {
+  reports: Array<{ organization: string; month: string; queued: number }>;
+}

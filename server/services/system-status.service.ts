@@ -1,0 +1,114 @@
+import { statfsSync } from 'node:fs';
+import type { DataSource } from 'typeorm';
+import type { JobName } from '../entities/job-run.entity.js';
+
+/** Every job kind the health answer reports on, in the order the admin page shows them. */
+export const JOB_KINDS: readonly JobName[] = ['detection', 'retention', 'report', 'backup'];
+
+/** Free space below which the data directory's disk counts as low: 1 GiB (product choice). */
+export const LOW_DISK_BYTES = 1024 ** 3;
+
+/** The latest run of one job kind; for detection, the latest run of the site whose last run failed, if any did. */
+export interface JobKindStatus {
+  status: 'never' | 'running' | 'succeeded' | 'failed';
+  startedAt: string | null;
+  finishedAt: string | null;
+  /** Detection only: how many sites' latest run failed. */
+  failedSites?: number;
+  /** Admins only: the failed run's error. */
+  error?: string | null;
+}
+
+/** Space on the disk that holds the data directory. */
+export interface DiskStatus {
+  status: 'ok' | 'low' | 'unknown';
+  /** Admins only: bytes free to the server process, and the disk's size. */
+  freeBytes?: number;
+  totalBytes?: number;
+}
+
+/** The process's own health: database, last run of each job kind, disk of the data directory. */
+export interface SystemStatus {
+  /** 'degraded' when the database cannot be reached; 'warn' when the disk is low or a job kind's last run failed. */
+  status: 'ok' | 'warn' | 'degraded';
+  database: 'ok' | 'unreachable';
+  /** Short sentences saying why the status is not 'ok'; they name no error text. */
+  warnings: string[];
+  jobs: Record<JobName, JobKindStatus> | null;
+  disk: DiskStatus;
+}
+
+interface LatestRow {
+  job: JobName;
+  status: 'running' | 'succeeded' | 'failed';
+  started_at: string;
+  finished_at: string | null;
+  error: string | null;
+}
+
+const JOB_WORDS: Record<JobName, string> = { detection: 'change detection', retention: 'evidence retention', report: 'monthly report', backup: 'backup' };
+
+// SQLite datetime text as TypeORM stores it ("2026-12-02 02:45:00.123", UTC) to ISO 8601.
+const iso = (text: string | null) => (text === null ? null : new Date(`${text.replace(' ', 'T')}Z`).toISOString());
+
+/**
+ * Checks what an operator's monitor asks about: is the database reachable, did each job kind's last
+ * run succeed, is there space left on the data directory's disk. Error texts and byte counts are
+ * for signed-in admins; everyone else gets the states only.
+ */
+export class SystemStatusService {
+  constructor(
+    private readonly db: DataSource,
+    private readonly dataDir: string,
+    private readonly lowDiskBytes = LOW_DISK_BYTES,
+  ) {}
+
+  /** The current status; `detailed` adds error texts and byte counts (admins). */
+  async check(detailed: boolean): Promise<SystemStatus> {
+    const disk = this.disk(detailed);
+    let rows: LatestRow[];
+    try {
+      rows = await this.latestRuns();
+    } catch {
+      return { status: 'degraded', database: 'unreachable', warnings: ['The database cannot be reached.'], jobs: null, disk };
+    }
+    const warnings: string[] = [];
+    if (disk.status === 'low') warnings.push(`Less than ${+(this.lowDiskBytes / 1024 ** 3).toFixed(2)} GiB is free on the data directory’s disk.`);
+    const jobs = {} as Record<JobName, JobKindStatus>;
+    for (const job of JOB_KINDS) {
+      const mine = rows.filter((r) => r.job === job).sort((a, b) => (a.started_at < b.started_at ? 1 : -1));
+      const failed = mine.filter((r) => r.status === 'failed');
+      const shown = failed[0] ?? mine[0];
+      const entry: JobKindStatus = shown
+        ? { status: shown.status, startedAt: iso(shown.started_at), finishedAt: iso(shown.finished_at) }
+        : { status: 'never', startedAt: null, finishedAt: null };
+      if (job === 'detection') entry.failedSites = failed.length;
+      if (detailed && shown?.status === 'failed') entry.error = shown.error;
+      if (failed.length > 0) warnings.push(job === 'detection' && failed.length > 1 ? `The last change detection failed on ${failed.length} sites.` : `The last ${JOB_WORDS[job]} run failed.`);
+      jobs[job] = entry;
+    }
+    return { status: warnings.length > 0 ? 'warn' : 'ok', database: 'ok', warnings, jobs, disk };
+  }
+
+  // The newest run of each job kind and site (a per-site job's sites each have their own last run;
+  // a removed site's runs no longer count); the (job, started_at) index answers the inner query.
+  private async latestRuns(): Promise<LatestRow[]> {
+    if (!this.db.isInitialized) throw new Error('The database is closed.');
+    return this.db.query(
+      `SELECT r.job, r.status, r.started_at, r.finished_at, r.error FROM job_runs r
+       WHERE r.started_at = (SELECT MAX(q.started_at) FROM job_runs q WHERE q.job = r.job AND COALESCE(q.site_id, '') = COALESCE(r.site_id, ''))
+         AND (r.site_id IS NULL OR r.site_id IN (SELECT id FROM sites))`,
+    ) as Promise<LatestRow[]>;
+  }
+
+  private disk(detailed: boolean): DiskStatus {
+    try {
+      const fs = statfsSync(this.dataDir);
+      const freeBytes = fs.bavail * fs.bsize;
+      const status = freeBytes < this.lowDiskBytes ? 'low' : 'ok';
+      return detailed ? { status, freeBytes, totalBytes: fs.blocks * fs.bsize } : { status };
+    } catch {
+      return { status: 'unknown' };
+    }
+  }
+}

@@ -28,6 +28,9 @@ const here = path.dirname(fileURLToPath(import.meta.url));
 const packageJson = [path.resolve(here, '../package.json'), path.resolve(here, '../../../package.json')].find((p) => existsSync(p));
 const version = packageJson ? (JSON.parse(readFileSync(packageJson, 'utf8')) as { version: string }).version : 'unknown';
 
+/** The path segment after an invitation, reset or unsubscribe prefix, API or app page: a bearer secret. */
+const LINK_TOKEN_IN_PATH = /(\/(?:invitations\/token|password-reset|unsubscribe|invite|reset)\/)[^/?#]+/g;
+
 /** Builds the Express app over an initialized DataSource; never listens. */
 export function createApp({ config, dataSource, log = pino({ level: config.logLevel }) }: { config: Config; dataSource: DataSource; log?: Logger }): AppBundle {
   const sessions = createSessions(dataSource, config);
@@ -59,6 +62,9 @@ export function createApp({ config, dataSource, log = pino({ level: config.logLe
         return id;
       },
       redact: ['req.headers.cookie', 'req.headers.authorization', 'res.headers["set-cookie"]'],
+      // Link tokens (invitation, password reset, unsubscribe) sit in the path; whoever reads the
+      // log must not be able to use them.
+      serializers: { req: (req: { url?: string }) => Object.assign(req, { url: req.url?.replace(LINK_TOKEN_IN_PATH, '$1[redacted]') }) },
       customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
     }),
   );

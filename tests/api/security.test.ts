@@ -3,12 +3,17 @@ import { mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node
 import os from 'node:os';
 import path from 'node:path';
 import { deflateSync, gzipSync } from 'node:zlib';
+import pino from 'pino';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { MAP_IMAGE_MAX_BYTES } from '../../shared/grid/map-kinds.js';
+import { createApp } from '../../server/app.js';
+import { testConfig } from '../../server/config.js';
+import { openDatabase } from '../../server/data-source.js';
 import { Invitation, Organization, Robot, User } from '../../server/entities/index.js';
 import { listRoutes } from '../../server/routes/index.js';
 import { DOCKING_BATCH_MAX_BYTES } from '../../server/services/docking.service.js';
+import { seedDemoAccounts } from '../../server/services/demo-seed.service.js';
 import { ROBOT_BATCH_MAX_BYTES } from '../../server/services/ingest.service.js';
 import { roomMap, scanLine } from './helpers/fixtures.js';
 import { insertCapturedMail } from './helpers/mail-fixtures.js';
@@ -734,6 +739,41 @@ describe('mass assignment', () => {
     expect((await request(t.app).post(robotsPath).set('Cookie', admin).send({ name: 'SEC-ID', model: 'X', id: ids.corvaneRobot })).status).toBe(400);
     expect(await t.dataSource.getRepository(Robot).findOneByOrFail({ id: ids.ambergateRobot })).toEqual(before);
     expect(await t.dataSource.getRepository(Robot).existsBy({ name: 'SEC-INTO' })).toBe(false);
+  });
+});
+
+describe('secrets in request logs', () => {
+  let t: TestApp;
+  let ids: Ids;
+  const lines: string[] = [];
+  beforeAll(async () => {
+    // The app as createTestApp builds it, but logging at info level into memory.
+    const dataSource = await openDatabase({ database: ':memory:' });
+    await seedDemoAccounts(dataSource, pino({ level: 'silent' }));
+    const config = testConfig();
+    const log = pino({ level: 'info' }, { write: (line: string) => void lines.push(line) });
+    t = { ...createApp({ config, dataSource, log }), dataSource, config, close: () => dataSource.destroy() };
+    ids = await demoIds(t.dataSource);
+  });
+  afterAll(() => t.close());
+
+  it('when requests carry a session cookie, a robot token or a link token, then none of them reaches the log', async () => {
+    const cookie = await signIn(t.app, demoAccount('admin').email, demoAccount('admin').password);
+    await request(t.app).get('/api/auth/me').set('Cookie', cookie).expect(200);
+    const { secret } = await t.services.robots.createToken(ids.admin, ids.ambergateSite, ids.ambergateRobot, 'log test');
+    await request(t.app).post('/api/ingest/scans').set('Authorization', `Bearer ${secret}`).send(scanLine({}));
+    const { link } = await t.services.invitations.create(ids.admin, { email: `logged-${crypto.randomUUID().slice(0, 8)}@ambergate.example`, name: 'Logged', role: 'viewer', organizationId: ids.ambergate });
+    const token = link.split('/').pop()!;
+    await request(t.app).get(`/api/invitations/token/${token}`).expect(200);
+    await request(t.app).post(`/api/invitations/token/${token}/accept`).send({ password: 'short' }).expect(400);
+    await request(t.app).get(`/invite/${token}`);
+    await request(t.app).post(`/api/auth/password-reset/${token}`).send({ password: 'short' });
+
+    const logged = lines.join('');
+    // The requests were logged, with the route shape kept for reading the log.
+    expect(logged).toContain('/api/invitations/token/[redacted]/accept');
+    expect(logged).toContain('/invite/[redacted]');
+    for (const leak of [sessionIdOf(cookie), secret, token]) expect(logged).not.toContain(leak);
   });
 });
 

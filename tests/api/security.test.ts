@@ -10,12 +10,13 @@ import { MAP_IMAGE_MAX_BYTES } from '../../shared/grid/map-kinds.js';
 import { createApp } from '../../server/app.js';
 import { testConfig } from '../../server/config.js';
 import { openDatabase } from '../../server/data-source.js';
-import { Invitation, Organization, Robot, User } from '../../server/entities/index.js';
+import { Invitation, Organization, Robot, RobotFlag, User } from '../../server/entities/index.js';
 import { listRoutes } from '../../server/routes/index.js';
 import { DOCKING_BATCH_MAX_BYTES } from '../../server/services/docking.service.js';
 import { seedDemoAccounts } from '../../server/services/demo-seed.service.js';
 import { ROBOT_BATCH_MAX_BYTES } from '../../server/services/ingest.service.js';
-import { roomMap, scanLine } from './helpers/fixtures.js';
+import { previousMonth } from '../../server/services/report-figures.service.js';
+import { insertZone, roomMap, scanLine } from './helpers/fixtures.js';
 import { insertCapturedMail } from './helpers/mail-fixtures.js';
 import { remapAt } from './helpers/remap-fixtures.js';
 import { createTestApp, demoAccount, demoIds, signIn, type TestApp } from './helpers/test-app.js';
@@ -774,6 +775,118 @@ describe('secrets in request logs', () => {
     expect(logged).toContain('/api/invitations/token/[redacted]/accept');
     expect(logged).toContain('/invite/[redacted]');
     for (const leak of [sessionIdOf(cookie), secret, token]) expect(logged).not.toContain(leak);
+  });
+});
+
+describe('organization scoping of every site and organization route', () => {
+  let t: TestApp;
+  let ids: Ids;
+  let priya: string;
+  const params: Record<string, string> = {};
+  beforeAll(async () => {
+    t = await createTestApp();
+    ids = await demoIds(t.dataSource);
+    // Priya manages Corvane's site; every id below belongs to Ambergate.
+    priya = await signIn(t.app, demoAccount('site_manager', true).email, demoAccount('site_manager', true).password);
+    const versionId = await activateRoom(t, ids);
+    const robot = await t.dataSource.getRepository(Robot).findOneByOrFail({ id: ids.ambergateRobot });
+    const { batch } = await t.services.ingest.ingestRobotBatch(robot, Buffer.from(scanLine({})), 'scoping');
+    const flag = t.dataSource.getRepository(RobotFlag).create({ id: crypto.randomUUID(), robotId: robot.id, scanner: 'front', status: 'active', raisedAt: new Date(), figures: { days: [], meanAgreement: 0.8, fleetMedian: 0.97, medianZ: -6 }, mount: null });
+    await t.dataSource.getRepository(RobotFlag).save(flag);
+    Object.assign(params, {
+      siteId: ids.ambergateSite,
+      orgId: ids.ambergate,
+      robotId: robot.id,
+      tokenId: (await t.services.robots.createToken(ids.admin, ids.ambergateSite, robot.id, 'scoping')).token.id,
+      versionId,
+      batchId: batch.id,
+      zoneId: await insertZone(t.dataSource, ids.ambergateSite, versionId, 7),
+      flagId: flag.id,
+      remapId: await remapAt(t, ids.ambergateSite, 'proposed'),
+      stationId: (await t.services.docking.create(ids.admin, ids.ambergateSite, { name: 'Scoping bay' })).id,
+      recipientId: (await t.services.recipients.add(ids.admin, ids.ambergate, { email: 'scoping.reader@ambergate.example' })).id,
+      month: previousMonth('Europe/London', new Date()),
+      z: '0',
+      x: '0',
+      y: '0',
+    });
+  });
+  afterAll(async () => {
+    await Promise.all(t.services.ingest.pending);
+    await t.close();
+  });
+
+  // Bodies that pass validation, so that the answer comes from the scope check, not the schema.
+  const bodies: Record<string, unknown> = {
+    'POST /api/organizations/:orgId/recipients': { email: 'sneak.reader@corvane.example' },
+    'POST /api/sites/:siteId/robots': { name: 'SNEAK-2', model: 'x', mounts: [] },
+    'PATCH /api/sites/:siteId/robots/:robotId': { model: 'hijacked' },
+    'POST /api/sites/:siteId/robots/:robotId/tokens': { label: 'sneak' },
+    'POST /api/sites/:siteId/zones/:zoneId/acknowledge': { note: 'sneak' },
+    'POST /api/sites/:siteId/robots/:robotId/flags/:flagId/clear': { note: 'sneak' },
+    'POST /api/sites/:siteId/remaps/:remapId/cancel': { reason: 'sneak' },
+    'POST /api/sites/:siteId/stations': { name: 'Sneak bay' },
+    'PATCH /api/sites/:siteId/stations/:stationId': { name: 'Sneak bay' },
+  };
+  const queries: Record<string, string> = {
+    'GET /api/sites/:siteId/map-versions/:versionId/diff': '?against=VERSION',
+    'GET /api/sites/:siteId/map-versions/:versionId/diff-tiles/:z/:x/:y.png': '?against=VERSION',
+  };
+  const scoped = () => listRoutes(t.routes).filter((r) => r.includes(':siteId') || r.includes(':orgId'));
+
+  function fill(route: string, own: Record<string, string>) {
+    const [method, pattern] = route.split(' ');
+    const p = pattern.replace(/:([A-Za-z]+)/g, (_m, name: string) => {
+      const value = own[name] ?? params[name];
+      if (value === undefined) throw new Error(`the scoping test has no id for :${name} in ${route}; add one to its params`);
+      return value;
+    });
+    const body = route === 'POST /api/sites/:siteId/remaps' ? { zoneIds: [params.zoneId] } : bodies[route];
+    return { method: method.toLowerCase() as 'get', path: p + (queries[route] ?? '').replace('VERSION', params.versionId), body };
+  }
+  const call = async (route: string, own: Record<string, string> = {}) => {
+    const { method, path: p, body } = fill(route, own);
+    const req = request(t.app)[method](p).set('Cookie', priya);
+    return body === undefined ? req : req.send(body as object);
+  };
+
+  it('when a customer user calls any site or organization route with another organization\'s ids, then the answer is the one for an id that does not exist, and nothing changes', async () => {
+    expect(scoped().length).toBeGreaterThan(40);
+    const before = await everyRow(t);
+    for (const route of scoped()) {
+      const foreign = await call(route);
+      const missing = await call(route, { siteId: crypto.randomUUID(), orgId: crypto.randomUUID() });
+      expect(foreign.status, route).toBeGreaterThanOrEqual(400);
+      expect({ status: foreign.status, code: foreign.body.error?.code }, route).toEqual({ status: missing.status, code: missing.body.error?.code });
+      expect([403, 404], route).toContain(foreign.status);
+    }
+    expect(await everyRow(t)).toBe(before);
+  });
+
+  it('when the same customer user reads their own organization\'s site and organization routes, then they are answered', async () => {
+    const own = { siteId: ids.corvaneSite, orgId: ids.corvane };
+    const reads = scoped().filter((r) => r.startsWith('GET ') && !/:(?!siteId|orgId|month)[A-Za-z]+/.test(r));
+    let answered = 0;
+    for (const route of reads) {
+      const res = await call(route, own);
+      // Routes her role may not use refuse her on her own site too, by role.
+      if (res.status === 403) expect(res.body.error.code, route).toBe('forbidden');
+      else expect(res.status, route).toBe(200);
+      if (res.status === 200) answered++;
+    }
+    expect(answered).toBeGreaterThan(5);
+  });
+
+  it('when a customer user lists the remap calendar or the mail queue, then no other organization\'s rows come back', async () => {
+    const from = new Date(Date.now() - 30 * 86_400_000).toISOString();
+    const to = new Date(Date.now() + 60 * 86_400_000).toISOString();
+    const remaps = await request(t.app).get(`/api/remaps?from=${from}&to=${to}`).set('Cookie', priya);
+    expect(remaps.status).toBe(200);
+    expect(JSON.stringify(remaps.body)).not.toContain(ids.ambergateSite);
+    await t.services.mail.enqueue({ dedupeKey: `scoping:${crypto.randomUUID()}`, kind: 'report', organizationId: ids.ambergate, to: { email: 'scoping.reader@ambergate.example', name: 'Reader' }, subject: 'Ambergate only', html: '<p>x</p>', text: 'x' });
+    const mail = await request(t.app).get('/api/mail').set('Cookie', priya);
+    expect(mail.status).toBe(200);
+    expect(JSON.stringify(mail.body)).not.toContain('Ambergate only');
   });
 });
 

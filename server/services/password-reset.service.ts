@@ -1,7 +1,7 @@
 import type { Logger } from 'pino';
 import { IsNull, MoreThan, MoreThanOrEqual, type DataSource } from 'typeorm';
 import type { Actor } from '../auth/actor.js';
-import { hashPassword } from '../auth/password.js';
+import { hashPassword, passwordProblem } from '../auth/password.js';
 import type { Sessions } from '../auth/sessions.js';
 import { Organization, PasswordResetToken, User } from '../entities/index.js';
 import { HttpError } from '../http-error.js';
@@ -102,6 +102,9 @@ export class PasswordResetService {
    */
   async reset(token: string, password: string, now = new Date()): Promise<void> {
     const open = await this.findOpen(token, now);
+    const owner = await this.db.getRepository(User).findOneBy({ id: open.userId });
+    const problem = owner ? passwordProblem(password, owner.email) : null;
+    if (problem) throw new HttpError(400, 'invalid_request', `The new password ${problem}.`);
     const passwordHash = await hashPassword(password);
     const user = await this.db.transaction(async (m) => {
       const claimed = await m

@@ -10,7 +10,7 @@ import { MAP_IMAGE_MAX_BYTES } from '../../shared/grid/map-kinds.js';
 import { createApp } from '../../server/app.js';
 import { testConfig } from '../../server/config.js';
 import { openDatabase } from '../../server/data-source.js';
-import { Invitation, Organization, Robot, RobotFlag, User } from '../../server/entities/index.js';
+import { Invitation, Organization, OutgoingMail, Robot, RobotFlag, User } from '../../server/entities/index.js';
 import { listRoutes } from '../../server/routes/index.js';
 import { DOCKING_BATCH_MAX_BYTES } from '../../server/services/docking.service.js';
 import { seedDemoAccounts } from '../../server/services/demo-seed.service.js';
@@ -379,6 +379,18 @@ describe('password policy', () => {
     const res = await request(t.app).post('/api/auth/change-password').set('Cookie', cookie).send({ currentPassword: person.password, newPassword: `${person.email}!!` });
     expect(res.status).toBe(400);
     expect(res.body.error.message).toBe('The new password must not contain your e-mail address or its part before the @.');
+    await signIn(t.app, person.email, person.password);
+  });
+
+  it('when a reset link sets a password that repeats a few characters, then 400, the link still works and the old password still signs in', async () => {
+    const person = await newPerson(t, ids, 'resetter');
+    await t.services.passwordReset.request(person.email, null);
+    const mail = await t.dataSource.getRepository(OutgoingMail).findOneByOrFail({ toEmail: person.email, subject: 'Reset your Driftline password' });
+    const token = /\/reset\/([A-Za-z0-9_-]+)/.exec(mail.text)![1];
+    const res = await request(t.app).post(`/api/auth/password-reset/${token}`).send({ password: 'tidetidetidetide' });
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toBe('The new password must not be a few characters repeated.');
+    expect((await request(t.app).get(`/api/auth/password-reset/${token}`)).status).toBe(204);
     await signIn(t.app, person.email, person.password);
   });
 });

@@ -23,7 +23,9 @@ export function createSessions(dataSource: DataSource, config: Config) {
   return new Lucia(adapter, {
     sessionExpiresIn: new TimeSpan(7, 'd'),
     sessionCookie: {
-      name: 'driftline_session',
+      // On https the __Host- prefix makes browsers refuse the cookie unless it is Secure, for Path=/
+      // and without Domain, so a sibling subdomain cannot plant one (RFC 6265bis, cookie prefixes).
+      name: config.secureCookies ? '__Host-driftline_session' : 'driftline_session',
       expires: true,
       attributes: { secure: config.secureCookies, sameSite: 'lax', path: '/' },
     },

@@ -71,6 +71,12 @@ export function createApp({ config, dataSource, log = pino({ level: config.logLe
   app.use(cookieParser());
 
   const api = express.Router();
+  // API answers hold one person's data: no cache keeps them unless a route says otherwise
+  // (tiles and previews never change, and set their own private caching).
+  api.use((_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
   api.use(express.json({ limit: '256kb' }));
   api.use(loadSession(sessions));
   api.use(sameOrigin(config.baseUrl));

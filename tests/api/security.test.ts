@@ -27,7 +27,7 @@ import { createTestApp, demoAccount, demoIds, signIn, type TestApp } from './hel
 type Ids = Awaited<ReturnType<typeof demoIds>>;
 
 const cookieOf = (res: request.Response): string | undefined =>
-  ((res.headers['set-cookie'] as unknown as string[] | undefined) ?? []).find((c) => c.startsWith('driftline_session='));
+  ((res.headers['set-cookie'] as unknown as string[] | undefined) ?? []).find((c) => /^(__Host-)?driftline_session=/.test(c));
 const sessionIdOf = (cookie: string) => cookie.split(';')[0].split('=')[1];
 
 /** Every stored row of every table as one string, for "the secret is nowhere" checks. */
@@ -92,6 +92,12 @@ describe('security headers', () => {
       expect(res.headers['x-frame-options']).toBe('SAMEORIGIN');
       expect(res.headers['referrer-policy']).toBe('no-referrer');
       expect(res.headers['x-powered-by']).toBeUndefined();
+    }
+  });
+
+  it('when the API answers, then nothing is cached unless the route says so', async () => {
+    for (const res of [await request(t.app).get('/api/auth/me'), await request(t.app).post('/api/auth/sign-in').send({ email: 'nobody@ambergate.example', password: 'not-the-password' }), await request(t.app).get('/api/no-such-thing')]) {
+      expect(res.headers['cache-control']).toBe('no-store');
     }
   });
 
@@ -275,12 +281,17 @@ describe('session cookie flags', () => {
     }
   });
 
-  it('when the base URL is https, then the session cookie and its clearing cookie are Secure', async () => {
+  it('when the base URL is https, then the session cookie and its clearing cookie are Secure, host-only __Host- cookies', async () => {
     const t = await createTestApp({ config: { baseUrl: 'https://driftline.kestrelway.example', secureCookies: true } });
     try {
       const cookie = cookieOf(await request(t.app).post('/api/auth/sign-in').send({ email: demoAccount('viewer').email, password: demoAccount('viewer').password }))!;
-      expect(cookie.split(';').map((p) => p.trim().toLowerCase())).toEqual(expect.arrayContaining(['secure', 'httponly', 'samesite=lax']));
+      expect(cookie).toMatch(/^__Host-driftline_session=/);
+      const flags = cookie.split(';').map((p) => p.trim().toLowerCase());
+      expect(flags).toEqual(expect.arrayContaining(['secure', 'httponly', 'samesite=lax', 'path=/']));
+      expect(flags.some((f) => f.startsWith('domain='))).toBe(false);
+      expect((await request(t.app).get('/api/auth/me').set('Cookie', cookie.split(';')[0])).status).toBe(200);
       const cleared = cookieOf(await request(t.app).post('/api/auth/sign-out').set('Cookie', cookie.split(';')[0]))!;
+      expect(cleared).toMatch(/^__Host-driftline_session=;/);
       expect(cleared.split(';').map((p) => p.trim().toLowerCase())).toEqual(expect.arrayContaining(['secure', 'httponly']));
     } finally {
       await t.close();

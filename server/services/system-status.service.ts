@@ -1,5 +1,6 @@
 import { statfsSync } from 'node:fs';
 import type { DataSource } from 'typeorm';
+import type { DiskStatus, JobKindStatus, SystemStatus } from '../../shared/types/jobs.js';
 import type { JobName } from '../entities/job-run.entity.js';
 
 /** Every job kind the health answer reports on, in the order the admin page shows them. */
@@ -7,36 +8,6 @@ export const JOB_KINDS: readonly JobName[] = ['detection', 'retention', 'report'
 
 /** Free space below which the data directory's disk counts as low: 1 GiB (product choice). */
 export const LOW_DISK_BYTES = 1024 ** 3;
-
-/** The latest run of one job kind; for detection, the latest run of the site whose last run failed, if any did. */
-export interface JobKindStatus {
-  status: 'never' | 'running' | 'succeeded' | 'failed';
-  startedAt: string | null;
-  finishedAt: string | null;
-  /** Detection only: how many sites' latest run failed. */
-  failedSites?: number;
-  /** Admins only: the failed run's error. */
-  error?: string | null;
-}
-
-/** Space on the disk that holds the data directory. */
-export interface DiskStatus {
-  status: 'ok' | 'low' | 'unknown';
-  /** Admins only: bytes free to the server process, and the disk's size. */
-  freeBytes?: number;
-  totalBytes?: number;
-}
-
-/** The process's own health: database, last run of each job kind, disk of the data directory. */
-export interface SystemStatus {
-  /** 'degraded' when the database cannot be reached; 'warn' when the disk is low or a job kind's last run failed. */
-  status: 'ok' | 'warn' | 'degraded';
-  database: 'ok' | 'unreachable';
-  /** Short sentences saying why the status is not 'ok'; they name no error text. */
-  warnings: string[];
-  jobs: Record<JobName, JobKindStatus> | null;
-  disk: DiskStatus;
-}
 
 interface LatestRow {
   job: JobName;

@@ -43,3 +43,36 @@ export interface BackupFigures {
 export interface ReportRunFigures {
   reports: Array<{ organization: string; month: string; queued: number }>;
 }
+
+/** The kinds of job that record runs. */
+export type JobKind = 'detection' | 'retention' | 'report' | 'backup';
+
+/** The latest run of one job kind; for detection, the latest run of the site whose last run failed, if any did. */
+export interface JobKindStatus {
+  status: 'never' | 'running' | 'succeeded' | 'failed';
+  startedAt: string | null;
+  finishedAt: string | null;
+  /** Detection only: how many sites' latest run failed. */
+  failedSites?: number;
+  /** Admins only: the failed run's error. */
+  error?: string | null;
+}
+
+/** Space on the disk that holds the data directory. */
+export interface DiskStatus {
+  status: 'ok' | 'low' | 'unknown';
+  /** Admins only: bytes free to the server process, and the disk's size. */
+  freeBytes?: number;
+  totalBytes?: number;
+}
+
+/** The process's own health: database, last run of each job kind, disk of the data directory. */
+export interface SystemStatus {
+  /** 'degraded' when the database cannot be reached; 'warn' when the disk is low or a job kind's last run failed. */
+  status: 'ok' | 'warn' | 'degraded';
+  database: 'ok' | 'unreachable';
+  /** Short sentences saying why the status is not 'ok'; they name no error text. */
+  warnings: string[];
+  jobs: Record<JobKind, JobKindStatus> | null;
+  disk: DiskStatus;
+}

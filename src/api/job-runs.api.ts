@@ -1,12 +1,18 @@
-import type { DetectionFigures as DetectionRunFigures, RetentionFigures as RetentionRunFigures } from '../../shared/types/jobs';
+import type {
+  BackupFigures as BackupRunFigures,
+  DetectionFigures as DetectionRunFigures,
+  JobKind,
+  ReportRunFigures,
+  RetentionFigures as RetentionRunFigures,
+} from '../../shared/types/jobs';
 import { apiRequest } from './client';
 
-export type JobName = 'detection' | 'retention';
+export type JobName = JobKind;
 export type JobTrigger = 'schedule' | 'manual' | 'startup';
 export type JobRunStatus = 'running' | 'succeeded' | 'failed';
 
-/** What a detection or retention run reports: the server's own types. */
-export type { DetectionRunFigures, RetentionRunFigures };
+/** What each kind of run reports: the server's own types. */
+export type { BackupRunFigures, DetectionRunFigures, ReportRunFigures, RetentionRunFigures };
 
 /** One run of a scheduled job; durations in milliseconds, figures as the job reported them. */
 export interface JobRun {
@@ -20,8 +26,14 @@ export interface JobRun {
   finishedAt: string | null;
   durationMs: number | null;
   error: string | null;
-  /** Detection or retention figures by `job`; null while running or after a failure. */
-  figures: Partial<DetectionRunFigures & RetentionRunFigures> | null;
+  /** Detection, retention, report or backup figures by `job`; null while running or after a failure. */
+  figures: Partial<DetectionRunFigures & RetentionRunFigures & ReportRunFigures & BackupRunFigures> | null;
+}
+
+/** The server's answer to "run now": the job started, or null with the reason when there was nothing to do. */
+export interface StartedJobRun {
+  started: { job: JobName; siteId: string | null } | null;
+  message?: string;
 }
 
 /** Returns the newest job runs, at most `limit`, optionally of one job (admin only). */
@@ -30,6 +42,6 @@ export async function listJobRuns(limit = 100, job?: JobName): Promise<JobRun[]>
 }
 
 /** Starts a job in the background, detection for one site or all (admin only); poll the list for its run. */
-export async function startJobRun(job: JobName, siteId?: string): Promise<void> {
-  await apiRequest<unknown>('/job-runs', { method: 'POST', body: siteId ? { job, siteId } : { job } });
+export async function startJobRun(job: JobName, siteId?: string): Promise<StartedJobRun> {
+  return apiRequest<StartedJobRun>('/job-runs', { method: 'POST', body: siteId ? { job, siteId } : { job } });
 }

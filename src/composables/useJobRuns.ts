@@ -1,5 +1,6 @@
 import { computed, onBeforeUnmount, watch } from 'vue';
-import { listJobRuns, startJobRun, type JobName } from '@/api/job-runs.api';
+import { getHealth } from '@/api/health.api';
+import { listJobRuns, startJobRun, type JobName, type StartedJobRun } from '@/api/job-runs.api';
 import { useAsync } from './useAsync';
 
 /** How often the list refreshes while a run is under way, in milliseconds. */
@@ -7,11 +8,13 @@ const REFRESH_MS = 3000;
 
 /**
  * The newest job runs as `{ data, isLoading, error, run }`, refreshing by itself every few seconds
- * while any run is 'running' (or one was just started), plus `start` for "run now".
+ * while any run is 'running' (or one was just started), plus `start` for "run now" and `health`,
+ * the last run of each job kind as GET /api/health reports it, refreshed with the list.
  */
 export function useJobRuns(limit = 100) {
   const list = useAsync(() => listJobRuns(limit));
   const starting = useAsync((job: JobName, siteId?: string) => startJobRun(job, siteId));
+  const health = useAsync(getHealth);
   const isRunning = computed(() => (list.data.value ?? []).some((r) => r.status === 'running'));
   let timer: ReturnType<typeof setTimeout> | undefined;
   /** A started run may not be in the list at the first refresh; keep polling a little while after "run now". */
@@ -23,17 +26,19 @@ export function useJobRuns(limit = 100) {
   }
 
   watch(isRunning, schedule);
+  // Every refresh of the list also refreshes the last run of each kind.
+  watch(list.data, () => void health.run());
   onBeforeUnmount(() => clearTimeout(timer));
 
-  /** Starts a job in the background and refreshes the list until its run has finished. */
-  async function start(job: JobName, siteId?: string): Promise<boolean> {
-    await starting.run(job, siteId);
-    if (starting.error.value) return false;
-    pollUntil = Date.now() + 4 * REFRESH_MS;
+  /** Starts a job in the background and refreshes the list until its run has finished; the server's answer, or null when it failed (see `startError`). */
+  async function start(job: JobName, siteId?: string): Promise<StartedJobRun | null> {
+    const answer = await starting.run(job, siteId);
+    if (starting.error.value || !answer) return null;
+    if (answer.started) pollUntil = Date.now() + 4 * REFRESH_MS;
     await list.run();
     schedule();
-    return true;
+    return answer;
   }
 
-  return { ...list, isRunning, start, isStarting: starting.isLoading, startError: starting.error };
+  return { ...list, isRunning, start, isStarting: starting.isLoading, startError: starting.error, health };
 }

@@ -11,11 +11,36 @@ export function duration(ms: number): string {
   return `${Math.floor(seconds / 60)} min ${String(seconds % 60).padStart(2, '0')} s`;
 }
 
+/** Returns a byte count as "850 B", "12.3 MB" or "4.1 GB" (powers of 1024, as disks and backups are measured). */
+export function bytes(n: number): string {
+  const units = ['B', 'KB', 'MB', 'GB', 'TB'];
+  let value = n;
+  let unit = 0;
+  while (value >= 1024 && unit < units.length - 1) {
+    value /= 1024;
+    unit++;
+  }
+  return unit === 0 ? `${n} B` : `${value.toFixed(1)} ${units[unit]}`;
+}
+
+/** What each kind of job is called on the admin page. */
+export const JOB_TITLES = { detection: 'Change detection', retention: 'Evidence retention', report: 'Monthly reports', backup: 'Database backup' } as const;
+
 /** Returns the figures of a run in a sentence ("14 days on map v1: 12 zones found (12 new, 0 updated, 0 no longer seen); scanner check advised for AMR-02/front"). */
 export function runFigures(run: JobRun): string {
   const f = run.figures;
   if (run.status === 'running') return 'running…';
   if (!f) return run.status === 'failed' ? 'no figures (the run failed)' : 'no figures recorded';
+  if (run.job === 'backup') {
+    const removed = f.removed ?? [];
+    const rotation = removed.length > 0 ? `, removed ${plural(removed.length, 'older backup')}` : '';
+    return `saved ${f.file ?? 'a copy'} (${bytes(f.bytes ?? 0)}, integrity check ok); ${plural((f.kept ?? []).length, 'backup')} kept of ${f.keep ?? '?'}${rotation}`;
+  }
+  if (run.job === 'report') {
+    const sent = f.reports ?? [];
+    if (sent.length === 0) return 'no report was due';
+    return sent.map((r) => `${r.organization} ${r.month}: ${plural(r.queued, 'mail')} queued`).join('; ');
+  }
   if (run.job === 'retention') {
     return `dropped ${plural(f.chunksDeleted ?? 0, 'evidence chunk')}, ${plural(f.blocksDeleted ?? 0, 'agreement block')}, ${plural(f.samplesDeleted ?? 0, 'scan sample')}, ${plural(f.trailsDeleted ?? 0, 'robot trail')}, ${plural(f.hoursDeleted ?? 0, 'hour of traffic', 'hours of traffic')} past retention`;
   }

@@ -6,6 +6,9 @@ export function notFoundHandler(req: Request, _res: Response, next: NextFunction
   next(new HttpError(404, 'not_found', `There is no ${req.method} ${req.originalUrl.split('?')[0]} in this API.`));
 }
 
+// busboy's messages for a multipart body it cannot read (node_modules/busboy/lib).
+const MULTIPART_DAMAGE = /^(Multipart: Boundary not found|Unexpected end of (form|file)|Malformed part header|Malformed content type|Missing Content-Type|Unsupported content type)/;
+
 // Errors raised by body parsers and upload middleware carry a status or a type; map them to
 // readable sentences instead of leaking their internals.
 function fromLibraryError(err: unknown): HttpError | null {
@@ -15,6 +18,8 @@ function fromLibraryError(err: unknown): HttpError | null {
   if (e?.type === 'encoding.unsupported' || e?.type === 'charset.unsupported') return new HttpError(415, 'unsupported_encoding', 'The request body encoding is not supported.');
   if (e?.code === 'LIMIT_FILE_SIZE') return new HttpError(413, 'file_too_large', 'The uploaded file is larger than allowed.');
   if (typeof e?.code === 'string' && e.code.startsWith('LIMIT_')) return new HttpError(400, 'invalid_upload', `The upload was refused: ${e.message}.`);
+  // The multipart parser under multer (busboy) throws plain errors for a damaged form body.
+  if (err instanceof Error && MULTIPART_DAMAGE.test(err.message)) return new HttpError(400, 'invalid_upload', 'The upload form could not be read: the multipart body is damaged or cut short.');
   if (typeof e?.status === 'number' && e.status >= 400 && e.status < 500) return new HttpError(e.status, 'invalid_request', 'The request could not be read.');
   return null;
 }

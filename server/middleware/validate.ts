@@ -9,6 +9,14 @@ interface Schemas {
   query?: z.ZodType;
 }
 
+// zod's default sentence for a missing field or an unreadable number names JavaScript values
+// ("expected string, received undefined"); say it in words instead.
+function issueSentence(issue: z.core.$ZodIssue): string {
+  if (issue.code === 'invalid_type' && / received undefined$/.test(issue.message)) return 'is required';
+  if (issue.code === 'invalid_type' && / received NaN$/.test(issue.message)) return `must be a ${issue.expected}`;
+  return issue.message;
+}
+
 /** Validates headers, params, query and body with zod; the parsed values land in `res.locals.headers/params/query/body`. */
 export function validate(schemas: Schemas) {
   return (req: Request, res: Response, next: NextFunction) => {
@@ -20,7 +28,7 @@ export function validate(schemas: Schemas) {
         const flat = z.flattenError(result.error);
         const first = result.error.issues[0];
         const where = first?.path.length ? `${first.path.join('.')}: ` : '';
-        throw badRequest(`The request ${part === 'body' ? 'body' : part} is not valid: ${where}${first?.message ?? 'invalid'}.`, {
+        throw badRequest(`The request ${part === 'body' ? 'body' : part} is not valid: ${where}${first ? issueSentence(first) : 'invalid'}.`, {
           fieldErrors: flat.fieldErrors,
           formErrors: flat.formErrors,
         });

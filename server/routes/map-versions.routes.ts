@@ -67,7 +67,7 @@ export function mapVersionsRoutes(services: Services) {
             mode: f.mode ?? 'trinary',
           }
         : undefined;
-    if (form && form.freeThresh >= form.occupiedThresh) throw badRequest('freeThresh must be smaller than occupiedThresh.');
+    if (form && form.freeThresh >= form.occupiedThresh) throw badRequest('The upload form is not valid: freeThresh must be smaller than occupiedThresh.');
     const version = await services.mapVersions.upload(actorOf(res), res.locals.params.siteId, { kind: f.kind, label: f.label, image, metadataFile, form });
     res.status(201).json({ mapVersion: version });
   });

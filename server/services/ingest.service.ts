@@ -15,6 +15,7 @@ import { conflict, HttpError, notFound } from '../http-error.js';
 import { EvidenceStore, rawHandle, sqliteDatetime } from './evidence-store.js';
 import { newId } from './ids.js';
 import type { MapVersionsService } from './map-versions.service.js';
+import { lineLengthGuard, readLogHead } from './log-precheck.js';
 import { ScanAccumulator } from './scan-accumulator.js';
 import { siteSettings } from './site-settings.js';
 import type { SitesService } from './sites.service.js';
@@ -232,6 +233,7 @@ export class IngestService {
       if (!(head[0] === 0x1f && head[1] === 0x8b) && head.includes(0)) {
         throw new HttpError(415, 'unsupported_log_type', `"${file.originalname}" is not a scan log: send JSON Lines (.jsonl) or gzip-compressed JSON Lines (.jsonl.gz).`);
       }
+      await this.refuseUncountableLog(site, map, file.path, head[0] === 0x1f && head[1] === 0x8b);
     } catch (e) {
       // A refused upload leaves nothing behind, not even the file.
       await rm(file.path, { force: true });
@@ -268,6 +270,26 @@ export class IngestService {
     return batchView(batch);
   }
 
+  /**
+   * Refuses up front (422, nothing stored) a log none of whose lines in its first megabyte unpacked
+   * could be counted — for a small log that is every line — or that is not readable gzip, or whose
+   * first line is absurdly long (a bomb). Anything else is accepted and read in the background.
+   */
+  private async refuseUncountableLog(site: Site, map: Awaited<ReturnType<IngestService['activeMap']>>, path: string, gzipped: boolean) {
+    const head = await readLogHead(path, gzipped);
+    const acc = await this.accumulator(site, map, { now: new Date() });
+    try {
+      head.lines.forEach((line, k) => acc.addLine(k + 1, line));
+      const f = acc.figures;
+      if (f.scans > 0 || f.poses > 0) return;
+      const details = { rejectedCount: f.rejectedCount, rejectedLines: f.rejectedLines };
+      if (head.complete) throw new HttpError(422, 'no_valid_scans', f.lines === 0 ? 'The file holds no scan lines; nothing was stored.' : `None of the file's ${f.lines} lines could be counted; nothing was stored.`, details);
+      throw new HttpError(422, 'no_valid_scans', f.lines === 0 ? 'The first megabyte of the file (unpacked) holds no scan line, so it is not a scan log; nothing was stored.' : `None of the first ${f.lines} lines of the file could be counted, so the log was refused; nothing was stored.`, details);
+    } finally {
+      acc.spill.close();
+    }
+  }
+
   /** Uploads still being processed; tests and shutdown wait on them. */
   readonly pending = new Set<Promise<unknown>>();
 
@@ -294,9 +316,10 @@ export class IngestService {
     const gzipped = head[0] === 0x1f && head[1] === 0x8b;
     let readError: unknown = null;
     // pipeline destroys every stage when one fails, so the line reader ends instead of waiting.
-    const stages = [createReadStream(path), rawCounter, ...(gzipped ? [createGunzip()] : []), inflatedCounter] as const;
+    const guard = lineLengthGuard();
+    const stages = [createReadStream(path), rawCounter, ...(gzipped ? [createGunzip()] : []), inflatedCounter, guard] as const;
     const piped = new Promise<unknown>((resolve) => pipeline([...stages], (e) => resolve(e ?? null)));
-    const reader = createInterface({ input: inflatedCounter, crlfDelay: Infinity });
+    const reader = createInterface({ input: guard, crlfDelay: Infinity });
     let lineNo = 0;
     let lastReport = Date.now();
     try {

@@ -1,7 +1,7 @@
 import { parse, stringify } from 'yaml';
 import { z } from 'zod';
 import type { MapMetadata } from '../types/grid.js';
-import { GridFormatError } from './errors.js';
+import { formatCount, GridFormatError } from './errors.js';
 
 /** Default occupied threshold of the PGM + YAML map convention (common practice). */
 export const DEFAULT_OCCUPIED_THRESH = 0.65;
@@ -45,12 +45,46 @@ const schema = z
     message: 'The map metadata\'s "free_thresh" must be smaller than its "occupied_thresh".',
   });
 
+/** Longest metadata file accepted, characters: the convention's file is a few lines (product choice). */
+export const MAP_METADATA_MAX_CHARS = 8 * 1024;
+/** Deepest nesting of flow lists and mappings accepted; the convention needs one level, for origin (product choice). */
+export const MAP_METADATA_MAX_DEPTH = 8;
+
+/**
+ * Refuses metadata too long or too deeply nested to be a map's before the YAML parser sees it: the
+ * parser's time grows with nesting depth (a million brackets took half a minute), a plain scan does not.
+ */
+function checkSize(yamlText: string): void {
+  if (yamlText.length > MAP_METADATA_MAX_CHARS) {
+    throw new GridFormatError(`The map metadata file holds ${formatCount(yamlText.length)} characters; a map's metadata is a few lines, and at most ${formatCount(MAP_METADATA_MAX_CHARS)} are accepted.`);
+  }
+  let depth = 0;
+  let quote = '';
+  for (let k = 0; k < yamlText.length; k++) {
+    const c = yamlText[k];
+    if (quote) {
+      if (c === quote) quote = '';
+      else if (c === '\n') quote = '';
+      continue;
+    }
+    if (c === '"' || c === "'") quote = c;
+    else if (c === '#' && (k === 0 || /\s/.test(yamlText[k - 1]))) {
+      while (k < yamlText.length && yamlText[k] !== '\n') k++;
+    } else if (c === '[' || c === '{') {
+      if (++depth > MAP_METADATA_MAX_DEPTH) {
+        throw new GridFormatError(`The map metadata nests lists or mappings more than ${MAP_METADATA_MAX_DEPTH} deep; a map's metadata needs one level.`);
+      }
+    } else if (c === ']' || c === '}') depth = Math.max(0, depth - 1);
+  }
+}
+
 /**
  * Parses map metadata YAML (image, resolution in m/cell, origin [x m, y m, yaw rad], negate,
  * occupied_thresh, free_thresh, mode) with the convention's defaults. Throws GridFormatError
  * naming the offending field.
  */
 export function parseMapMetadata(yamlText: string): MapMetadata {
+  checkSize(yamlText);
   let doc: unknown;
   try {
     doc = parse(yamlText);

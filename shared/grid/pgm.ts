@@ -151,6 +151,14 @@ function throwAboveMaxval(value: number, index: number, width: number, maxval: n
 /** Reads the plain (P2) raster: ASCII decimal samples separated by whitespace; comments are skipped too. */
 function readPlainRaster(reader: HeaderReader, bytes: Uint8Array, width: number, height: number, maxval: number): Uint16Array {
   const n = width * height;
+  // Each value takes a digit and all but the last a separator: a file too short for the claimed
+  // size is refused before 2 bytes per claimed pixel are allocated.
+  const remaining = bytes.length - reader.pos;
+  if (remaining < 2 * n - 1) {
+    throw new GridFormatError(
+      `The PGM header says ${formatCount(width)} × ${formatCount(height)} pixels but the file's ${formatCount(Math.max(0, remaining))} bytes after the header cannot hold that many grey values.`,
+    );
+  }
   const pixels = new Uint16Array(n);
   for (let k = 0; k < n; k++) {
     reader.skipSpaceAndComments();

@@ -102,7 +102,7 @@ export class RemapNoticesService {
         link: n.link,
         hasCalendar: message.method === 'REQUEST',
       });
-      const attachments = message.method && n.calendar ? [{ filename: `driftline-remap-R-${n.remap.number}.ics`, contentType: calendarContentType(message.method), content: Buffer.from(message.ics!, 'utf8') }] : [];
+      const attachments = message.method && message.ics ? [{ filename: `driftline-remap-R-${n.remap.number}.ics`, contentType: calendarContentType(message.method), content: Buffer.from(message.ics, 'utf8') }] : [];
       await this.mail.enqueue({
         dedupeKey: `remap_notice:${n.remap.id}:${n.event}:${n.sequence}:${user.id}`,
         kind: 'remap_notice',

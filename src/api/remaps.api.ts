@@ -109,6 +109,8 @@ export interface RemapRequest {
   verification: RemapVerification | null;
   note: string;
   cancelReason: string | null;
+  /** Who the move's e-mail notice went to; only in the answers of schedule and cancel. */
+  noticeSentTo?: PersonRef[];
   createdAt: string;
   updatedAt: string;
   /** Present on the detail only. */

@@ -7,6 +7,7 @@ import {
   listRemapAssignees,
   scheduleRemap,
   startRemap,
+  type PersonRef,
   type RemapRequest,
 } from '@/api/remaps.api';
 import { ref } from 'vue';
@@ -31,8 +32,10 @@ export function useRemap(siteId: () => string, remapId: () => string) {
       throw cause;
     }
   });
+  /** Who the last step's e-mail notice went to (schedule and cancel tell), or null. */
+  const noticeSentTo = ref<PersonRef[] | null>(null);
   const action = useAsync(async (step: () => Promise<RemapRequest>) => {
-    await step();
+    noticeSentTo.value = (await step()).noticeSentTo ?? null;
     // The step's answer lacks the history; the detail has it.
     return getRemap(siteId(), remapId());
   });
@@ -46,6 +49,7 @@ export function useRemap(siteId: () => string, remapId: () => string) {
   return {
     ...detail,
     notFound,
+    noticeSentTo,
     approve: () => take(() => approveRemap(siteId(), remapId())),
     schedule: (start: string, assigneeId: string) => take(() => scheduleRemap(siteId(), remapId(), { start, assigneeId })),
     start: () => take(() => startRemap(siteId(), remapId())),

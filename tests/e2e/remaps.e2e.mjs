@@ -293,6 +293,26 @@ export const tests = [
       await expectText(page, colleague);
       const { remap } = await getJson(page.request, `${baseUrl}/api/sites/${shared.remap.siteId}/remaps/${shared.remap.id}`);
       assert(remap.status === 'scheduled' && remap.window.start === first.start && remap.assignee?.name === colleague, `the request is ${remap.status} at ${remap.window?.start} for ${remap.assignee?.name}`);
+      await expectText(page, `Notice sent to ${colleague}`);
+
+      // The colleague's notice reached the built-in capture server with the calendar file (admin outbox API).
+      const admin = await apiAs(baseUrl, accounts.admin);
+      try {
+        const subject = `Remap R-${remap.number} at ${siteName} scheduled for `;
+        let notice = null;
+        for (const deadline = Date.now() + 20_000; !notice && Date.now() < deadline; ) {
+          const { messages } = await getJson(admin, '/api/outbox?limit=50');
+          notice = messages.find((m) => m.subject.startsWith(subject) && m.to.includes(accounts.admin.email));
+          if (!notice) await new Promise((resolve) => setTimeout(resolve, 500));
+        }
+        assert(notice, `no notice “${subject}…” to ${accounts.admin.email} reached the outbox`);
+        const { message } = await getJson(admin, `/api/outbox/${notice.id}`);
+        const ics = message.attachments.find((a) => a.contentType === 'text/calendar');
+        assert(ics && ics.filename === `driftline-remap-R-${remap.number}.ics`, `the notice carries ${JSON.stringify(message.attachments)}`);
+        assert(message.text.includes(`Window: `) && message.text.includes(quietWindows.timezone), `the notice's text reads “${message.text}”`);
+      } finally {
+        await admin.dispose();
+      }
       await page.getByRole('list', { name: 'Quietest windows' }).getByRole('listitem').first().getByText('Scheduled here').waitFor();
       await page.locator('.p-toast-message').first().waitFor({ state: 'detached', timeout: 10_000 }).catch(() => {});
       await screenshot('remap-detail.png');

@@ -38,6 +38,15 @@ async function everyRow(t: TestApp): Promise<string> {
   return parts.join('\n');
 }
 
+/** A fresh app with the demo accounts and sites, and the demo ids. */
+async function openSeeded(options: Parameters<typeof createTestApp>[0] = {}) {
+  const t = await createTestApp(options);
+  return { t, ids: await demoIds(t.dataSource) };
+}
+
+/** Signs in the demo account of a role (for site_manager: Ambergate's, or Corvane's with `corvane`); returns the cookie. */
+const signInAs = (t: TestApp, role: string, corvane = false) => signIn(t.app, demoAccount(role, corvane).email, demoAccount(role, corvane).password);
+
 const count = async (t: TestApp, table: string) => ((await t.dataSource.query(`SELECT COUNT(*) AS n FROM "${table}"`)) as Array<{ n: number }>)[0].n;
 
 /** Invites a person to Ambergate as a viewer and accepts for them; returns their e-mail, password and id. */
@@ -122,9 +131,8 @@ describe('cross-site request refusal (CSRF)', () => {
   let admin: string;
   let robotSecret: string;
   beforeAll(async () => {
-    t = await createTestApp();
-    ids = await demoIds(t.dataSource);
-    admin = await signIn(t.app, demoAccount('admin').email, demoAccount('admin').password);
+    ({ t, ids } = await openSeeded());
+    admin = await signInAs(t, 'admin');
     await activateRoom(t, ids);
     robotSecret = (await t.services.robots.createToken(ids.admin, ids.ambergateSite, ids.ambergateRobot, 'csrf test')).secret;
   });
@@ -195,8 +203,7 @@ describe('session fixation and expiry', () => {
   let t: TestApp;
   let ids: Ids;
   beforeAll(async () => {
-    t = await createTestApp();
-    ids = await demoIds(t.dataSource);
+    ({ t, ids } = await openSeeded());
   });
   afterAll(() => t.close());
 
@@ -204,7 +211,7 @@ describe('session fixation and expiry', () => {
   const sessionRow = async (id: string) => (await t.dataSource.query('SELECT * FROM sessions WHERE id = ?', [id]))[0] as { user_id: string; expires_at: number } | undefined;
 
   it('when a valid session id of someone else is planted before sign-in, then sign-in issues a new id and the planted one is not promoted', async () => {
-    const planted = await signIn(t.app, demoAccount('viewer').email, demoAccount('viewer').password);
+    const planted = await signInAs(t, 'viewer');
     const res = await request(t.app).post('/api/auth/sign-in').set('Cookie', planted).send({ email: demoAccount('admin').email, password: demoAccount('admin').password });
     expect(res.status).toBe(200);
     const issued = cookieOf(res)!;
@@ -232,7 +239,7 @@ describe('session fixation and expiry', () => {
   });
 
   it('when signing out, then the session row is deleted server-side and the old cookie is refused', async () => {
-    const cookie = await signIn(t.app, demoAccount('site_manager').email, demoAccount('site_manager').password);
+    const cookie = await signInAs(t, 'site_manager');
     expect(await sessionRow(sessionIdOf(cookie))).toBeDefined();
     const out = await request(t.app).post('/api/auth/sign-out').set('Cookie', cookie);
     expect(out.status).toBe(204);
@@ -242,7 +249,7 @@ describe('session fixation and expiry', () => {
   });
 
   it('when a session has expired, then it is refused, deleted and the cookie is cleared', async () => {
-    const cookie = await signIn(t.app, demoAccount('viewer').email, demoAccount('viewer').password);
+    const cookie = await signInAs(t, 'viewer');
     expect((await me(cookie)).status).toBe(200);
     await t.dataSource.query('UPDATE sessions SET expires_at = ? WHERE id = ?', [Math.floor(Date.now() / 1000) - 1, sessionIdOf(cookie)]);
     const res = await me(cookie);
@@ -255,7 +262,7 @@ describe('session fixation and expiry', () => {
     const person = await newPerson(t, ids, 'rotate');
     const here = await signIn(t.app, person.email, person.password);
     const there = await signIn(t.app, person.email, person.password);
-    const other = await signIn(t.app, demoAccount('viewer').email, demoAccount('viewer').password);
+    const other = await signInAs(t, 'viewer');
     const res = await request(t.app).post('/api/auth/change-password').set('Cookie', here).send({ currentPassword: person.password, newPassword: 'copper-kettle-evening-17' });
     expect(res.status).toBe(204);
     expect((await me(here)).status).toBe(200);
@@ -340,8 +347,7 @@ describe('password policy', () => {
   let t: TestApp;
   let ids: Ids;
   beforeAll(async () => {
-    t = await createTestApp();
-    ids = await demoIds(t.dataSource);
+    ({ t, ids } = await openSeeded());
   });
   afterAll(() => t.close());
 
@@ -411,9 +417,8 @@ describe('robot tokens', () => {
   let ids: Ids;
   let manager: string;
   beforeAll(async () => {
-    t = await createTestApp();
-    ids = await demoIds(t.dataSource);
-    manager = await signIn(t.app, demoAccount('site_manager').email, demoAccount('site_manager').password);
+    ({ t, ids } = await openSeeded());
+    manager = await signInAs(t, 'site_manager');
     await activateRoom(t, ids);
   });
   afterAll(() => t.close());
@@ -470,9 +475,8 @@ describe('upload size and type limits', () => {
   let dataDir: string;
   beforeAll(async () => {
     dataDir = mkdtempSync(path.join(os.tmpdir(), 'driftline-security-'));
-    t = await createTestApp({ config: { dataDir } });
-    ids = await demoIds(t.dataSource);
-    tomas = await signIn(t.app, demoAccount('mapper').email, demoAccount('mapper').password);
+    ({ t, ids } = await openSeeded({ config: { dataDir } }));
+    tomas = await signInAs(t, 'mapper');
     await activateRoom(t, ids);
     secret = (await t.services.robots.createToken(ids.admin, ids.ambergateSite, ids.ambergateRobot, 'limits')).secret;
   });
@@ -486,7 +490,7 @@ describe('upload size and type limits', () => {
 
   it('when a JSON body is larger than 256 kB, then 413 with a sentence and nothing is stored', async () => {
     const before = await count(t, 'organizations');
-    const res = await request(t.app).post('/api/organizations').set('Cookie', await signIn(t.app, demoAccount('admin').email, demoAccount('admin').password)).send({ name: 'x'.repeat(300 * 1024), timezone: 'Europe/London' });
+    const res = await request(t.app).post('/api/organizations').set('Cookie', await signInAs(t, 'admin')).send({ name: 'x'.repeat(300 * 1024), timezone: 'Europe/London' });
     expect(res.status).toBe(413);
     expect(res.body.error).toMatchObject({ code: 'payload_too_large', message: 'The request body is larger than the 262144 bytes allowed.' });
     expect(await count(t, 'organizations')).toBe(before);
@@ -585,7 +589,7 @@ describe('error bodies', () => {
   let admin: string;
   beforeAll(async () => {
     t = await createTestApp();
-    admin = await signIn(t.app, demoAccount('admin').email, demoAccount('admin').password);
+    admin = await signInAs(t, 'admin');
   });
   afterAll(() => t.close());
 
@@ -642,9 +646,8 @@ describe('path traversal on file and tile routes', () => {
     writeFileSync(path.join(webRoot, 'web', 'index.html'), '<!doctype html><title>Driftline shell</title>');
     writeFileSync(path.join(webRoot, 'web', 'assets', 'app.js'), 'console.log("driftline asset");');
     writeFileSync(path.join(webRoot, 'secret.txt'), 'outside-the-web-folder');
-    t = await createTestApp({ config: { webDir: path.join(webRoot, 'web') } });
-    ids = await demoIds(t.dataSource);
-    admin = await signIn(t.app, demoAccount('admin').email, demoAccount('admin').password);
+    ({ t, ids } = await openSeeded({ config: { webDir: path.join(webRoot, 'web') } }));
+    admin = await signInAs(t, 'admin');
     mapVersionId = await activateRoom(t, ids);
     remapId = await remapAt(t, ids.ambergateSite, 'scheduled');
     mailId = await insertCapturedMail(t);
@@ -704,10 +707,9 @@ describe('mass assignment', () => {
   let admin: string;
   let priya: string;
   beforeAll(async () => {
-    t = await createTestApp();
-    ids = await demoIds(t.dataSource);
-    admin = await signIn(t.app, demoAccount('admin').email, demoAccount('admin').password);
-    priya = await signIn(t.app, demoAccount('site_manager', true).email, demoAccount('site_manager', true).password);
+    ({ t, ids } = await openSeeded());
+    admin = await signInAs(t, 'admin');
+    priya = await signInAs(t, 'site_manager', true);
   });
   afterAll(() => t.close());
 
@@ -782,7 +784,7 @@ describe('secrets in request logs', () => {
   afterAll(() => t.close());
 
   it('when requests carry a session cookie, a robot token or a link token, then none of them reaches the log', async () => {
-    const cookie = await signIn(t.app, demoAccount('admin').email, demoAccount('admin').password);
+    const cookie = await signInAs(t, 'admin');
     await request(t.app).get('/api/auth/me').set('Cookie', cookie).expect(200);
     const { secret } = await t.services.robots.createToken(ids.admin, ids.ambergateSite, ids.ambergateRobot, 'log test');
     await request(t.app).post('/api/ingest/scans').set('Authorization', `Bearer ${secret}`).send(scanLine({}));
@@ -807,10 +809,9 @@ describe('organization scoping of every site and organization route', () => {
   let priya: string;
   const params: Record<string, string> = {};
   beforeAll(async () => {
-    t = await createTestApp();
-    ids = await demoIds(t.dataSource);
+    ({ t, ids } = await openSeeded());
     // Priya manages Corvane's site; every id below belongs to Ambergate.
-    priya = await signIn(t.app, demoAccount('site_manager', true).email, demoAccount('site_manager', true).password);
+    priya = await signInAs(t, 'site_manager', true);
     const versionId = await activateRoom(t, ids);
     const robot = await t.dataSource.getRepository(Robot).findOneByOrFail({ id: ids.ambergateRobot });
     const { batch } = await t.services.ingest.ingestRobotBatch(robot, Buffer.from(scanLine({})), 'scoping');

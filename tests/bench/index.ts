@@ -8,6 +8,7 @@ import { run as changeDetection } from './change-detection.bench.js';
 import { run as detect } from './detect.bench.js';
 import { run as bundle } from './bundle.bench.js';
 import { run as mapDiff } from './map-diff.bench.js';
+import { run as backup } from './backup.bench.js';
 
 const benches: [string, () => Promise<void>][] = [['traverse', traverse]];
 benches.push(['simulate', simulate]);
@@ -17,6 +18,7 @@ benches.push(['change detection', changeDetection]);
 benches.push(['detect', detect]);
 benches.push(['bundle', bundle]);
 benches.push(['map diff', mapDiff]);
+benches.push(['backup', backup]);
 
 // `npm run bench -- tiles bundle` runs only the benches whose names contain one of the words.
 const only = process.argv.slice(2);

@@ -58,6 +58,26 @@ export const tests = [
     },
   },
   {
+    name: 'when an admin opens Job runs and backs up now, then every job kind is shown and the backup run is listed with its file',
+    async run({ page, baseUrl, screenshot }) {
+      await signIn(page, baseUrl, accounts.admin);
+      await page.goto(`${baseUrl}/admin/job-runs`);
+      const kinds = page.getByRole('region', { name: 'Run now' });
+      for (const kind of ['Change detection', 'Evidence retention', 'Monthly reports', 'Database backup']) {
+        await kinds.getByRole('article', { name: kind }).waitFor();
+      }
+      const backup = kinds.getByRole('article', { name: 'Database backup' });
+      await backup.getByRole('button', { name: 'Back up now' }).click();
+      const table = page.getByRole('table', { name: 'Job runs' });
+      const row = table.locator('tbody tr').filter({ hasText: 'Database backup' }).filter({ hasText: 'succeeded' }).first();
+      await row.waitFor({ timeout: 60_000 });
+      const text = await row.innerText();
+      assert(/saved driftline-\d{8}T\d{6}Z\.sqlite \([\d.]+ [KMG]?B, integrity check ok\)/.test(text), `expected the backup file and its size in the row, got “${text}”`);
+      await backup.getByText('succeeded').waitFor();
+      await screenshot('admin-job-runs.png');
+    },
+  },
+  {
     name: "when an admin filters the overview by customer and text, then only the matching sites remain",
     async run({ page, baseUrl, screenshot }) {
       await signIn(page, baseUrl, accounts.admin);

@@ -24,7 +24,7 @@ export function passwordResetRoutes(services: Services) {
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     handler: () => {
-      throw new HttpError(429, 'rate_limited', 'Too many password reset requests from this address. Please wait 15 minutes and try again.');
+      throw new HttpError(429, 'rate_limited', 'Too many password reset requests from this address. Please wait up to 15 minutes and try again.');
     },
   });
 

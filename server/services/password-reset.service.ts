@@ -1,5 +1,5 @@
 import type { Logger } from 'pino';
-import { IsNull, MoreThan, MoreThanOrEqual, type DataSource } from 'typeorm';
+import { IsNull, MoreThan, MoreThanOrEqual, type DataSource, type EntityManager } from 'typeorm';
 import type { Actor } from '../auth/actor.js';
 import { hashPassword, passwordProblem } from '../auth/password.js';
 import type { Sessions } from '../auth/sessions.js';
@@ -17,6 +17,10 @@ export const RESET_REQUESTS_PER_HOUR = 3;
 
 /** The one answer for a link that is unknown, expired, replaced or used: the page cannot tell them apart. */
 const linkGone = () => new HttpError(400, 'reset_link_invalid', 'This reset link is not valid or has expired. Ask for a new one from the sign-in page.');
+
+/** Ends every open link of the user at `now`; the rows stay, as the hourly limit counts them. */
+const endOpenLinks = (m: EntityManager, userId: string, now: Date) =>
+  m.createQueryBuilder().update(PasswordResetToken).set({ expiresAt: now }).where('user_id = :user AND used_at IS NULL AND expires_at > :now', { user: userId, now }).execute();
 
 const utc = (d: Date) => `${d.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
 
@@ -66,12 +70,7 @@ export class PasswordResetService {
       const recent = await m.countBy(PasswordResetToken, { userId: user.id, createdAt: MoreThanOrEqual(new Date(now.getTime() - RESET_LINK_MS)) });
       if (recent >= RESET_REQUESTS_PER_HOUR) return null;
       // Only the newest link works: earlier open ones end now.
-      await m
-        .createQueryBuilder()
-        .update(PasswordResetToken)
-        .set({ expiresAt: now })
-        .where('user_id = :user AND used_at IS NULL AND expires_at > :now', { user: user.id, now })
-        .execute();
+      await endOpenLinks(m, user.id, now);
       const row = m.create(PasswordResetToken, { id: newId(), userId: user.id, tokenHash: sha256(token), expiresAt: new Date(now.getTime() + RESET_LINK_MS), usedAt: null, createdAt: now, requestedFrom: ip });
       await m.save(row);
       return row;
@@ -118,12 +117,7 @@ export class PasswordResetService {
       if (!u || u.status !== 'active') throw linkGone();
       await m.update(User, u.id, { passwordHash });
       // Any other link of the account ends with this reset.
-      await m
-        .createQueryBuilder()
-        .update(PasswordResetToken)
-        .set({ expiresAt: now })
-        .where('user_id = :user AND used_at IS NULL AND expires_at > :now', { user: u.id, now })
-        .execute();
+      await endOpenLinks(m, u.id, now);
       // The session store shares this connection, so closing the sessions is part of the transaction.
       await this.sessions.invalidateUserSessions(u.id);
       const actor: Actor = { id: u.id, email: u.email, name: u.name, role: u.role, organizationId: u.organizationId };

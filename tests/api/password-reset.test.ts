@@ -227,7 +227,10 @@ describe('password reset by e-mail', () => {
       }
       const limited = await request(office.app).post('/api/auth/password-reset').send({ email: 'someone@ambergate.example' });
       expect(limited.status).toBe(429);
-      expect(limited.body.error.message).toBe('Too many password reset requests from this address. Please wait 15 minutes and try again.');
+      expect(limited.body.error.message).toBe('Too many password reset requests from this address. Please wait up to 15 minutes and try again.');
+      // express-rate-limit@8.7.5 sets Retry-After (RFC 9110 §10.2.3) in seconds on the refusal.
+      expect(Number(limited.headers['retry-after'])).toBeGreaterThan(0);
+      expect(Number(limited.headers['retry-after'])).toBeLessThanOrEqual(15 * 60);
       await office.services.passwordReset.settled();
     } finally {
       await office.close();

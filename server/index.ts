@@ -9,6 +9,7 @@ import { openDatabase } from './data-source.js';
 import { startMailCapture, type MailCapture } from './mail/capture.js';
 import { smtpTransport } from './mail/transport.js';
 import { DEMO_DAYS, demoEvidencePending, seedDemoAccounts, seedDemoEvidence, seedDemoRemap } from './services/demo-seed.service.js';
+import { removeLeftoverUploads } from './services/upload-scratch.js';
 
 // Entry point: config → data source → app → listen; graceful stop on SIGTERM/SIGINT.
 async function main() {
@@ -18,6 +19,8 @@ async function main() {
   const dataSource = await openDatabase({ database: config.databasePath });
   const { app, services } = createApp({ config, dataSource, log });
   await services.ingest.failInterrupted();
+  const leftUploads = await removeLeftoverUploads(config.dataDir);
+  if (leftUploads > 0) log.info({ files: leftUploads }, 'removed the files of uploads a stopped server left behind');
   await services.jobRuns.failInterrupted();
   if (config.seedDemo) await seedDemoAccounts(dataSource, log);
   // No SMTP host configured: mail goes to the built-in capture server and shows in the admin outbox.

@@ -1,5 +1,4 @@
 import { mkdirSync } from 'node:fs';
-import path from 'node:path';
 import { Router } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
@@ -9,6 +8,7 @@ import { actorOf, authenticate, requireRole } from '../middleware/authenticate.j
 import { validate } from '../middleware/validate.js';
 import { UPLOAD_MAX_BYTES } from '../services/ingest.service.js';
 import type { Services } from '../services/index.js';
+import { uploadsDir } from '../services/upload-scratch.js';
 import { id } from './schemas.js';
 
 const siteParams = z.object({ siteId: id });
@@ -16,7 +16,7 @@ const siteParams = z.object({ siteId: id });
 /** /api/sites/:siteId/scan-batches: received batches, and uploads of recorded scan logs (streamed to disk). */
 export function scanBatchesRoutes(services: Services, config: Config) {
   const router = Router({ mergeParams: true });
-  const dir = path.join(config.dataDir, 'uploads');
+  const dir = uploadsDir(config.dataDir);
   // The log goes to disk as it arrives and is read back line by line: never whole in memory.
   const upload = multer({
     storage: multer.diskStorage({

@@ -59,7 +59,8 @@ describe('remap notices by e-mail', () => {
   const methodParam = (a: Attachment) => (a.headers.get('content-type') as { params: Record<string, string> }).params.method;
   const mailRows = () => t.dataSource.getRepository(OutgoingMail).count({ where: { kind: 'remap_notice' } });
   const newRequest = async (cookie: string) => {
-    const zoneId = await insertZone(t.dataSource, site, mapId, zoneNumber++);
+    const active = await t.services.mapVersions.activeFloor(site);
+    const zoneId = await insertZone(t.dataSource, site, active!.id, zoneNumber++);
     const res = await request(t.app).post(base()).set('Cookie', cookie).send({ zoneIds: [zoneId] });
     expect(res.status).toBe(201);
     return res.body.remap as { id: string; number: number };
@@ -265,6 +266,17 @@ describe('remap notices by e-mail', () => {
     const mail = to(parsed, 'nadia.manager@ambergate.example');
     expect(mail.subject).toBe(`Remap R-${first.number} at Fennick Cross DC not fixed: 2 zones still flag`);
     expect(mail.text).toContain(`zones still flag in the request's area: Z-40, Z-41 (2); agreement ${(remap.verification!.before.agreement! * 100).toFixed(1)} % → 96.1 %, changed area`);
+  });
+
+  it('when a request that never had a window is cancelled, then its requester is told without a calendar file', async () => {
+    const r = await newRequest(nadia);
+    expect((await act(nadia, r.id, 'cancel', { reason: 'the racks stay where they are' })).status).toBe(200);
+    const [mail] = await deliver(18);
+    expect(received.at(-1)!.to).toEqual(['nadia.manager@ambergate.example']);
+    expect(mail.subject).toBe(`Remap R-${r.number} at Fennick Cross DC cancelled`);
+    expect(mail.text).toContain('Nadia Okonkwo-Hale cancelled it: the racks stay where they are.');
+    expect(mail.text).toContain('Window: not scheduled');
+    expect(mail.attachments).toHaveLength(0);
   });
 });
 

@@ -12,6 +12,7 @@ import type { Config } from './config.js';
 import { loadSession } from './middleware/authenticate.js';
 import { errorHandler, notFoundHandler } from './middleware/errors.js';
 import { sameOrigin } from './middleware/same-origin.js';
+import { requireUtf8 } from './middleware/utf8-body.js';
 import { routeTable, type RouteEntry } from './routes/index.js';
 import { createServices, type Services } from './services/index.js';
 
@@ -77,7 +78,7 @@ export function createApp({ config, dataSource, log = pino({ level: config.logLe
     res.setHeader('Cache-Control', 'no-store');
     next();
   });
-  api.use(express.json({ limit: '256kb' }));
+  api.use(express.json({ limit: '256kb', verify: requireUtf8 }));
   api.use(loadSession(sessions));
   api.use(sameOrigin(config.baseUrl));
   for (const { path: p, router } of routes) api.use(p, router);

@@ -460,6 +460,14 @@ function fillPath(ctx: CorpusContext, route: string, replace?: { name: string; v
 /** 8 MB of JSON in 8 kB of gzip. */
 const JSON_BOMB = gz(Buffer.from('{"a":"' + 'x'.repeat(8 * 1024 * 1024) + '"}'));
 
+/** The body as JSON with a byte 0xff (never valid UTF-8) inside its first string value, or in a string of its own. */
+function invalidUtf8Json(body: Record<string, unknown>): Buffer {
+  const key = Object.keys(body).find((k) => typeof body[k] === 'string');
+  const text = JSON.stringify(key ? { ...body, [key]: `${body[key] as string}\u0001` } : { ...body, note: '\u0001' });
+  const [before, after] = text.split('\\u0001');
+  return Buffer.concat([Buffer.from(before), Buffer.from([0xff]), Buffer.from(after)]);
+}
+
 /** Deeply nested JSON object, as a string. */
 const deepJson = (depth: number) => '{"a":'.repeat(depth) + '1' + '}'.repeat(depth);
 
@@ -496,6 +504,7 @@ export function apiCases(ctx: CorpusContext): { cases: BadCase[]; untouched: str
       add('body is broken JSON', { path, raw: { body: '{"name": ', type: 'application/json' } });
       add('body is 5,000 objects deep', { path, raw: { body: deepJson(5000), type: 'application/json' } });
       add('body has an unknown field', { path, json: { ...base, zzzUnknown: 1 } });
+      add('body holds invalid UTF-8', { path, raw: { body: invalidUtf8Json(base), type: 'application/json' } });
       add('body has a __proto__ field', { path, raw: { body: JSON.stringify(base).replace(/^\{/, '{"__proto__":{"role":"admin"},').replace(',}', '}'), type: 'application/json' } });
       // The body parser in front of every route reads these, so each route gets two of the four, in turn.
       const encodings: Array<[string, Omit<BadCase, 'family' | 'label' | 'method' | 'auth' | 'path'>]> = [

@@ -83,6 +83,7 @@ export const tests = [
       await page.goto(`${baseUrl}${path}`);
       await expectText(page, 'This reset link is not valid or has expired.');
       await page.getByRole('link', { name: 'Ask for a new link' }).waitFor();
+      await screenshot('password-reset-dead-link.png');
 
       // The old password no longer opens the account; the new one does.
       await page.goto(`${baseUrl}/sign-in`);

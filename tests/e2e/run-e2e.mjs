@@ -33,10 +33,22 @@ function ensureChromium() {
   }
 }
 
-function build() {
-  console.log('Building the app (npm run build)…');
-  const result = spawnSync('npm', ['run', 'build'], { cwd: root, stdio: 'inherit' });
-  if (result.status !== 0) fail('The build failed, so the browser tests cannot run.');
+// What `npm run build` does, but the web part goes to this run's own folder: the server reads the
+// pages from disk at every request, so a run beside this one rebuilding dist/web would change them
+// under it. The server code (dist/node) is read once at start.
+function build(webDir) {
+  console.log('Building the app (vite build into this run\'s folder, tsc -p tsconfig.build.json)…');
+  const bin = (name) => path.join(root, 'node_modules', '.bin', name);
+  const web = spawnSync(bin('vite'), ['build', '--outDir', webDir, '--emptyOutDir'], { cwd: root, stdio: 'inherit' });
+  if (web.status !== 0) {
+    rmSync(webDir, { recursive: true, force: true });
+    fail('The web build failed, so the browser tests cannot run.');
+  }
+  const server = spawnSync(bin('tsc'), ['-p', 'tsconfig.build.json'], { cwd: root, stdio: 'inherit' });
+  if (server.status !== 0) {
+    rmSync(webDir, { recursive: true, force: true });
+    fail('The server build failed, so the browser tests cannot run.');
+  }
 }
 
 function freePort() {
@@ -52,13 +64,13 @@ function freePort() {
 
 // Its own capture port, so that runs side by side never deliver into each other's outbox; and never
 // a real SMTP host from the caller's environment, so the tests' mail stays in the built-in capture.
-function testEnv(port, smtpPort, dataDir) {
-  const env = { ...process.env, DRIFTLINE_DATA_DIR: dataDir, PORT: String(port), DRIFTLINE_SMTP_PORT: String(smtpPort), HOST: '127.0.0.1', NODE_ENV: 'production', LOG_LEVEL: 'warn' };
+function testEnv(port, smtpPort, dataDir, webDir) {
+  const env = { ...process.env, DRIFTLINE_DATA_DIR: dataDir, DRIFTLINE_WEB_DIR: webDir, PORT: String(port), DRIFTLINE_SMTP_PORT: String(smtpPort), HOST: '127.0.0.1', NODE_ENV: 'production', LOG_LEVEL: 'warn' };
   delete env.DRIFTLINE_SMTP_HOST;
   return env;
 }
 
-function startServer(port, smtpPort, dataDir) {
+function startServer(port, smtpPort, dataDir, webDir) {
   const entry = path.join(root, 'dist', 'node', 'server', 'index.js');
   if (!existsSync(entry)) throw new Error(`The build did not produce ${path.relative(root, entry)}.`);
   // Detached: the server leads its own process group, so everything it starts is stopped with it.
@@ -66,7 +78,7 @@ function startServer(port, smtpPort, dataDir) {
     cwd: root,
     detached: true,
     stdio: ['ignore', 'pipe', 'pipe'],
-    env: testEnv(port, smtpPort, dataDir),
+    env: testEnv(port, smtpPort, dataDir, webDir),
   });
   const output = [];
   child.stdout.on('data', (chunk) => output.push(chunk.toString()));
@@ -126,7 +138,8 @@ async function loadTests() {
 async function main() {
   ensureChromium();
   const { chromium } = await import('playwright-core');
-  build();
+  const webDir = mkdtempSync(path.join(tmpdir(), 'driftline-e2e-web-'));
+  build(webDir);
   mkdirSync(screenshotDir, { recursive: true });
 
   const dataDir = mkdtempSync(path.join(tmpdir(), 'driftline-e2e-data-'));
@@ -145,6 +158,7 @@ async function main() {
     await stopServer(server);
     rmSync(dataDir, { recursive: true, force: true });
     rmSync(profileDir, { recursive: true, force: true });
+    rmSync(webDir, { recursive: true, force: true });
   };
   const onSignal = (signal) => {
     void cleanUp().finally(() => process.exit(signal === 'SIGINT' ? 130 : 143));
@@ -153,7 +167,7 @@ async function main() {
   process.once('SIGTERM', onSignal);
 
   try {
-    server = startServer(port, smtpPort, dataDir);
+    server = startServer(port, smtpPort, dataDir, webDir);
     await waitForHealth(baseUrl, server);
     console.log(`Server ready at ${baseUrl}; running browser tests.`);
 

@@ -1,14 +1,52 @@
 import { mkdirSync, readdirSync, renameSync, rmSync, statSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import path from 'node:path';
-import Database from 'better-sqlite3';
+import { Worker } from 'node:worker_threads';
 import type { Logger } from 'pino';
 import type { DataSource } from 'typeorm';
 import type { BackupFigures } from '../../shared/types/jobs.js';
 import { exclusive } from '../transaction-lock.js';
 import { rawHandle } from './evidence-store.js';
 
-/** Pages copied per backup step: about 4 MB at SQLite's default 4 KiB page, so the event loop is never held for long (product choice). */
+/** Pages copied per backup step of an in-memory database: about 4 MB at SQLite's default 4 KiB page (product choice). */
 const PAGES_PER_STEP = 1024;
+
+/** Where the worker thread loads better-sqlite3 from. */
+const DRIVER = createRequire(import.meta.url).resolve('better-sqlite3');
+
+// The worker (plain JavaScript, so that it runs the same from source and from the build) copies a
+// file database through its own read-only connection holding one read transaction for the whole
+// copy: in WAL mode one consistent snapshot, while the server's connection keeps writing (its writes
+// neither wait for the copy nor restart it). Then it makes the copy one self-contained file
+// (rollback journal instead of WAL), so that it can be opened read-only, moved and restored without
+// companion -wal/-shm files, and checks it whole with PRAGMA integrity_check.
+const WORKER_SOURCE = `
+const { parentPort, workerData } = require('node:worker_threads');
+const Database = require(workerData.driver);
+(async () => {
+  let pages = null;
+  if (workerData.source) {
+    const source = new Database(workerData.source, { readonly: true, fileMustExist: true });
+    try {
+      source.exec('BEGIN');
+      source.prepare('SELECT count(*) FROM sqlite_master').get();
+      pages = (await source.backup(workerData.dest, { progress: () => 16384 })).totalPages;
+      source.exec('COMMIT');
+    } finally {
+      source.close();
+    }
+  }
+  const copy = new Database(workerData.dest, { fileMustExist: true });
+  try {
+    copy.pragma('journal_mode = DELETE');
+    const problems = copy.pragma('integrity_check').map((r) => r.integrity_check).filter((r) => r !== 'ok');
+    if (problems.length > 0) throw new Error('The backup copy failed its integrity check: ' + problems.slice(0, 3).join('; ') + '.');
+  } finally {
+    copy.close();
+  }
+  parentPort.postMessage({ pages });
+})().catch((err) => parentPort.postMessage({ error: err && err.message ? err.message : String(err) }));
+`;
 
 /** A backup's file name: `driftline-YYYYMMDDTHHMMSSZ.sqlite`, with `-2`, `-3`… when two are made within one second. */
 const BACKUP_NAME = /^driftline-(\d{8}T\d{6}Z)(?:-(\d+))?\.sqlite$/;
@@ -16,6 +54,16 @@ const BACKUP_NAME = /^driftline-(\d{8}T\d{6}Z)(?:-(\d+))?\.sqlite$/;
 /** Returns the UTC stamp of a backup's name for `now`: "20261202T024500Z". */
 export function backupStamp(now: Date): string {
   return now.toISOString().replace(/\.\d{3}Z$/, 'Z').replace(/[-:]/g, '');
+}
+
+/** Runs WORKER_SOURCE: copies `source` to `dest` when given, then checks `dest`; resolves to the pages copied (null when it only checked). */
+function inWorker(job: { source?: string; dest: string }): Promise<number | null> {
+  return new Promise((resolve, reject) => {
+    const worker = new Worker(WORKER_SOURCE, { eval: true, workerData: { driver: DRIVER, ...job } });
+    worker.once('message', (m: { pages: number | null; error?: string }) => (m.error === undefined ? resolve(m.pages) : reject(new Error(m.error))));
+    worker.once('error', reject);
+    worker.once('exit', (code) => reject(new Error(`The backup worker stopped (exit code ${code}) before it finished.`)));
+  });
 }
 
 /** One backup file in the backup folder. */
@@ -70,15 +118,18 @@ export class BackupService {
   /** Makes one verified backup and rotates the folder; returns what it did (file, bytes, pages, duration in ms, kept and removed files). */
   async create(now = new Date()): Promise<BackupFigures> {
     const started = performance.now();
-    mkdirSync(this.directory, { recursive: true });
+    try {
+      mkdirSync(this.directory, { recursive: true });
+    } catch (err) {
+      throw new Error(`The backup folder ${this.directory} cannot be made (${(err as Error).message}).`);
+    }
     this.removeLeftovers();
     const name = this.freeName(backupStamp(now));
     const partial = path.join(this.directory, `.${name}.partial`);
     const final = path.join(this.directory, name);
     let pages: number;
     try {
-      pages = await this.copyTo(partial);
-      this.verify(partial);
+      pages = await this.copyAndCheck(partial);
       renameSync(partial, final);
     } catch (err) {
       rmSync(partial, { force: true });
@@ -91,40 +142,15 @@ export class BackupService {
     return { file: name, bytes, pages, durationMs, integrity: 'ok', keep: this.options.backupKeep, kept, removed };
   }
 
-  // A file database is copied through a second, read-only connection that holds one read transaction
-  // for the whole copy: in WAL mode that is one consistent snapshot, while the server's connection
-  // keeps writing (its writes are not waited for and do not restart the copy). An in-memory database
-  // (tests) can only be read through the server's own connection; the copy then has it to itself.
-  private async copyTo(file: string): Promise<number> {
-    const progress = () => PAGES_PER_STEP;
-    if (this.options.databasePath === ':memory:') {
-      const result = await exclusive(this.db, () => rawHandle(this.db).backup(file, { progress }));
-      return result.totalPages;
-    }
-    const source = new Database(this.options.databasePath, { readonly: true, fileMustExist: true });
-    try {
-      source.exec('BEGIN');
-      source.prepare('SELECT count(*) FROM sqlite_master').get();
-      const result = await source.backup(file, { progress });
-      source.exec('COMMIT');
-      return result.totalPages;
-    } finally {
-      source.close();
-    }
-  }
-
-  // The copy becomes one self-contained file (rollback journal instead of WAL), so that it can be
-  // opened read-only, moved and restored without companion -wal/-shm files; then it is checked whole.
-  private verify(file: string): void {
-    const copy = new Database(file, { fileMustExist: true });
-    try {
-      copy.pragma('journal_mode = DELETE');
-      const rows = copy.pragma('integrity_check') as Array<{ integrity_check: string }>;
-      const problems = rows.map((r) => r.integrity_check).filter((r) => r !== 'ok');
-      if (problems.length > 0) throw new Error(`The backup copy failed its integrity check: ${problems.slice(0, 3).join('; ')}.`);
-    } finally {
-      copy.close();
-    }
+  // A file database is copied and checked in a worker thread, so that neither the copy nor the
+  // integrity check (most of a backup's time) holds up the server's requests. An in-memory database
+  // (tests) can only be read through the server's own connection, which then has it to itself for
+  // the copy; the worker checks that copy.
+  private async copyAndCheck(file: string): Promise<number> {
+    if (this.options.databasePath !== ':memory:') return (await inWorker({ source: this.options.databasePath, dest: file }))!;
+    const { totalPages } = await exclusive(this.db, () => rawHandle(this.db).backup(file, { progress: () => PAGES_PER_STEP }));
+    await inWorker({ dest: file });
+    return totalPages;
   }
 
   private freeName(stamp: string): string {

@@ -170,6 +170,25 @@ describe('database backup', () => {
   });
 });
 
+describe('a backup that cannot be made', () => {
+  it('when the backup folder cannot be made, then the run is recorded as failed with the reason, and the server keeps answering', async () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'driftline-nobackup-'));
+    writeFileSync(path.join(dir, 'backups'), 'a file where the folder should be');
+    const t = await createTestApp({ config: { dataDir: dir } });
+    try {
+      const run = await t.services.jobRuns.backup('schedule', t.services.backups);
+      expect(run).toMatchObject({ job: 'backup', status: 'failed', figures: null });
+      expect(run!.error).toMatch(/^The backup folder .*backups cannot be made \(EEXIST/);
+      expect(readFileSync(path.join(dir, 'backups'), 'utf8')).toBe('a file where the folder should be');
+      const health = await request(t.app).get('/api/health');
+      expect(health.body).toMatchObject({ status: 'warn', jobs: { backup: { status: 'failed' } } });
+    } finally {
+      await t.close();
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+});
+
 describe('restore refusals', () => {
   let dir: string;
   let good: string;

@@ -323,6 +323,7 @@ export function logCases(ctx: CorpusContext): BadCase[] {
   robot('gzip with a damaged checksum', damagedCrc(gz(good)));
   robot('Content-Encoding gzip over plain text', good, { 'Content-Encoding': 'gzip' });
   robot('Content-Encoding of an unknown kind', good, { 'Content-Encoding': 'compress' });
+  robot('33 MB plain body', Buffer.concat([good, Buffer.alloc(33 * 1024 * 1024, 0x20)]));
   upload('gzip magic and garbage', Buffer.concat([Buffer.from([0x1f, 0x8b]), raster(64, 0x55)]), 'drive.jsonl.gz');
   upload('gzip cut in half', gz(Buffer.concat(Array.from({ length: 50 }, () => good))).subarray(0, 60), 'drive.jsonl.gz');
   upload('gzip with a damaged checksum', damagedCrc(gz(good)), 'drive.jsonl.gz');
@@ -530,6 +531,8 @@ export function apiCases(ctx: CorpusContext): { cases: BadCase[]; untouched: str
           if (spec.required.includes(field)) add(`${field} missing`, { path, json: Object.fromEntries(Object.entries(base).filter(([k]) => k !== field)) });
         }
         if (Object.keys(spec.body).length > 0 && spec.required.length === 0 && route.startsWith('PATCH')) add('empty body', { path, json: {} });
+        // Not JSON, so the body is not read: the route sees no fields at all.
+        if (spec.required.length > 0) add('body sent as text/plain', { path, raw: { body: JSON.stringify(spec.body), type: 'text/plain' } });
       }
     }
     if (method === 'get') {

@@ -37,7 +37,8 @@ const POSE_REPORT_STEP_MS = 2000;
 /** Days of simulated evidence each demo site gets, ending yesterday (site-local). */
 export const DEMO_DAYS = 28;
 
-interface DemoSite {
+/** A demo site: its customer, place, zone and the simulator settings of its building and fleet. */
+export interface DemoSite {
   org: string;
   name: string;
   city: string;
@@ -49,7 +50,8 @@ interface DemoSite {
 // keep the first start short while leaving weeks of evidence; tracing dominates the cost.
 const LIGHT = { beamStep: 4, scansPerRobotPerDay: 60 };
 
-const SITES: DemoSite[] = [
+/** The demo sites; the load test simulates more robots in the same buildings. */
+export const SITES: readonly DemoSite[] = [
   // Pallets in the staging lane on about two days in five: an intermittent change to leave out of the map.
   { org: 'Ambergate Provisions', name: 'Fennick Cross DC', city: 'Fennick Cross', timezone: 'Europe/London', sim: { seed: 7101, robots: 4, ...LIGHT, changes: { palletDays: [3, 5, 8, 9, 13, 16, 17, 21, 24, 26] }, mountErrors: [{ robot: 'AMR-02', scanner: 'front', dyaw: (1.4 * Math.PI) / 180 }] } },
   { org: 'Ambergate Provisions', name: 'Tarrow Heath Cold Store', city: 'Tarrow Heath', timezone: 'Europe/London', sim: { seed: 7202, robots: 3, site: { width: 48, depth: 32 }, ...LIGHT, changes: { missingFromDay: null, fenceFromDay: 20, unmappedFromDay: null } } },

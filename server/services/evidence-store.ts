@@ -1,13 +1,13 @@
-import { deflateRawSync, inflateRawSync } from 'node:zlib';
+import { promisify } from 'node:util';
+import { deflateRaw, deflateRawSync, inflateRaw, inflateRawSync } from 'node:zlib';
 import type { Database } from 'better-sqlite3';
 import type { DataSource } from 'typeorm';
 import { decodeChunkCounters, DEFAULT_CHUNK_SIZE, encodeChunkCounters, mergeChunk } from '../../shared/evidence/chunks.js';
 import type { EvidenceCounters } from '../../shared/scan/accumulate.js';
 import { exclusive } from '../transaction-lock.js';
-import type { PendingChunk } from './chunk-spill.js';
 import { encodeTrail } from '../../shared/scan/trail.js';
 import { newId } from './ids.js';
-import type { PendingBlocks, PendingHour, PendingSample, PendingStat, PendingTrail } from './scan-accumulator.js';
+import type { BatchChunk, PendingBlocks, PendingHour, PendingSample, PendingStat, PendingTrail } from './scan-accumulator.js';
 
 const CHUNK_CELLS = DEFAULT_CHUNK_SIZE * DEFAULT_CHUNK_SIZE;
 const UINT32_MAX = 0xffff_ffff;
@@ -20,7 +20,7 @@ export const rawHandle = (db: DataSource) => (db.driver as unknown as { database
 
 /** What one batch adds to the store. */
 export interface BatchEvidence {
-  chunks: Iterable<PendingChunk>;
+  chunks: Iterable<BatchChunk>;
   stats: PendingStat[];
   blocks: PendingBlocks[];
   blockCells: number;
@@ -34,6 +34,40 @@ export const SAMPLE_MAX = 48;
 
 function addSaturating(into: Uint32Array, from: Uint32Array) {
   for (let k = 0; k < into.length; k++) into[k] = Math.min(into[k] + from[k], UINT32_MAX);
+}
+
+/**
+ * Chunks of a batch whose sum with the stored chunk is worked out before the transaction, on
+ * zlib's worker threads (product choice: enough for a robot's batch; a long upload's further
+ * chunks are summed inside the transaction, so memory stays bounded).
+ */
+const PREPARED_MAX = 256;
+/** Chunks summed at once off the main thread (libuv's default pool has four threads). */
+const PREPARE_PARALLEL = 4;
+const inflateRawAsync = promisify(inflateRaw);
+const deflateRawAsync = promisify(deflateRaw);
+
+/** A batch's chunk summed with the chunk stored when it was read: right only while the stored bytes are still `base`. */
+interface PreparedChunk {
+  chunk: BatchChunk;
+  base: Buffer | null;
+  data: Buffer;
+}
+
+/** A batch chunk's counters, unpacked (a packed one is inflated). */
+function countersOf(c: BatchChunk, raw: Buffer | null) {
+  if ('hits' in c) return { hits: c.hits.slice(), passes: c.passes.slice() };
+  return decodeChunkCounters(raw ?? inflateRawSync(c.data), CHUNK_CELLS);
+}
+
+/** The stored bytes of a chunk summed with a batch's counters: the batch's counters are changed in place. */
+function sumCounters(added: { hits: Uint32Array; passes: Uint32Array }, stored: Buffer | null, inflated: Buffer | null) {
+  if (stored) {
+    const old = decodeChunkCounters(inflated ?? inflateRawSync(stored), CHUNK_CELLS);
+    addSaturating(added.hits, old.hits);
+    addSaturating(added.passes, old.passes);
+  }
+  return encodeChunkCounters(added.hits, added.passes);
 }
 
 /** Reads stored agreement-block counts (deflated little-endian uint32). */
@@ -64,6 +98,24 @@ export class EvidenceStore {
   async commit(mapVersionId: string, siteId: string, evidence: BatchEvidence, guard: (raw: Database) => boolean): Promise<boolean> {
     const raw = rawHandle(this.db);
     const selectChunk = raw.prepare('SELECT data FROM evidence_chunks WHERE map_version_id = ? AND day = ? AND robot_id = ? AND cx = ? AND cy = ?');
+    const storedChunk = (c: BatchChunk) => (selectChunk.get(mapVersionId, c.day, c.robotId, c.cx, c.cy) as { data: Buffer } | undefined)?.data ?? null;
+    // The zlib work of summing chunks (most of a robot batch's cost) runs before the transaction
+    // and off the main thread, so other requests are answered meanwhile; the transaction then only
+    // checks that each stored chunk is still the one summed with, and sums again any that changed.
+    const chunks = evidence.chunks[Symbol.iterator]();
+    const prepared: PreparedChunk[] = [];
+    const prepareNext = async (): Promise<void> => {
+      while (prepared.length < PREPARED_MAX) {
+        const next = chunks.next();
+        if (next.done) return;
+        const slot = prepared.push({ chunk: next.value, base: null, data: Buffer.alloc(0) }) - 1;
+        const c = next.value;
+        const base = storedChunk(c);
+        const [addedRaw, storedRaw] = await Promise.all(['hits' in c ? null : inflateRawAsync(c.data), base ? inflateRawAsync(base) : null]);
+        prepared[slot] = { chunk: c, base, data: await deflateRawAsync(sumCounters(countersOf(c, addedRaw), base, storedRaw), { level: 1 }) };
+      }
+    };
+    await Promise.all(Array.from({ length: PREPARE_PARALLEL }, prepareNext));
     const upsertChunk = raw.prepare(
       'INSERT INTO evidence_chunks (map_version_id, day, robot_id, cx, cy, data, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?) ' +
         'ON CONFLICT (map_version_id, day, robot_id, cx, cy) DO UPDATE SET data = excluded.data, updated_at = excluded.updated_at',
@@ -91,15 +143,15 @@ export class EvidenceStore {
     const now = sqliteDatetime(new Date());
     const run = raw.transaction(() => {
       if (!guard(raw)) return false;
-      for (const c of evidence.chunks) {
-        const added = decodeChunkCounters(inflateRawSync(c.data), CHUNK_CELLS);
-        const stored = selectChunk.get(mapVersionId, c.day, c.robotId, c.cx, c.cy) as { data: Buffer } | undefined;
-        if (stored) {
-          const old = decodeChunkCounters(inflateRawSync(stored.data), CHUNK_CELLS);
-          addSaturating(added.hits, old.hits);
-          addSaturating(added.passes, old.passes);
-        }
-        upsertChunk.run(mapVersionId, c.day, c.robotId, c.cx, c.cy, deflateRawSync(encodeChunkCounters(added.hits, added.passes), { level: 1 }), now);
+      for (const p of prepared) {
+        const c = p.chunk;
+        const stored = storedChunk(c);
+        const same = stored === null ? p.base === null : p.base !== null && stored.equals(p.base);
+        upsertChunk.run(mapVersionId, c.day, c.robotId, c.cx, c.cy, same ? p.data : deflateRawSync(sumCounters(countersOf(c, null), stored, null), { level: 1 }), now);
+      }
+      for (let next = chunks.next(); !next.done; next = chunks.next()) {
+        const c = next.value;
+        upsertChunk.run(mapVersionId, c.day, c.robotId, c.cx, c.cy, deflateRawSync(sumCounters(countersOf(c, null), storedChunk(c), null), { level: 1 }), now);
       }
       for (const s of evidence.stats) addStat.run(siteId, s.robotId, s.scanner, s.day, mapVersionId, s.scans, s.beams, s.returns, s.explained, s.outOfMap);
       for (const b of evidence.blocks) {

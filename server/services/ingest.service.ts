@@ -22,6 +22,8 @@ import type { SitesService } from './sites.service.js';
 
 /** Largest decompressed robot batch, bytes: guards against gzip bombs (product choice). */
 export const ROBOT_BATCH_MAX_BYTES = 32 * 1024 * 1024;
+/** Longest stretch of a robot batch's tracing between two yields to other requests, ms (product choice: well under the dashboards' 100 ms). */
+const ROBOT_BATCH_SLICE_MS = 10;
 /** Largest uploaded scan log, bytes as uploaded (product choice). */
 export const UPLOAD_MAX_BYTES = 2 * 1024 * 1024 * 1024;
 /** Largest decompressed size of an uploaded log, bytes. */
@@ -107,7 +109,7 @@ export class IngestService {
   private commitAccumulated(version: MapVersion, site: Site, acc: ScanAccumulator, guard: (raw: Database) => boolean) {
     const { stats, blocks, samples, trails, hours } = acc.finish();
     const blockCells = Math.max(1, Math.round(siteSettings(site).agreementBlockM / version.resolution));
-    return this.store.commit(version.id, site.id, { chunks: acc.spill.chunks(), stats, blocks, blockCells, samples, trails, hours }, guard).finally(() => acc.spill.close());
+    return this.store.commit(version.id, site.id, { chunks: acc.chunks(), stats, blocks, blockCells, samples, trails, hours }, guard).finally(() => acc.spill.close());
   }
 
   private async robotsByName(siteId: string) {
@@ -133,7 +135,15 @@ export class IngestService {
     const { version } = map;
     const acc = await this.accumulator(site, map, { robotsByName: new Map([[robot.name, robot]]), expectedRobot: robot.name, now });
     const lines = text.toString('utf8').split('\n');
-    for (let k = 0; k < lines.length; k++) acc.addLine(k + 1, lines[k].replace(/\r$/, ''));
+    let lastYield = Date.now();
+    for (let k = 0; k < lines.length; k++) {
+      acc.addLine(k + 1, lines[k].replace(/\r$/, ''));
+      // Tracing a batch of full scans takes tens of milliseconds: let other requests in between.
+      if (Date.now() - lastYield > ROBOT_BATCH_SLICE_MS) {
+        await new Promise((resolve) => setImmediate(resolve));
+        lastYield = Date.now();
+      }
+    }
     const f = acc.figures;
     if (f.scans === 0 && f.poses === 0) {
       acc.spill.close();

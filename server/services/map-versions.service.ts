@@ -17,6 +17,7 @@ import type { Actor } from '../auth/actor.js';
 import { MapVersion } from '../entities/index.js';
 import type { MapKind } from '../entities/map-version.entity.js';
 import { badRequest, conflict, HttpError, notFound } from '../http-error.js';
+import { AnswerCache } from './answer-cache.js';
 import type { AuditService } from './audit.service.js';
 import { decodeGrid, encodeGrid, encodePng } from './grid-codec.js';
 import { newId } from './ids.js';
@@ -34,6 +35,8 @@ export type FormMetadata = Omit<MapMetadata, 'image'>;
 
 const PNG_MAGIC = Buffer.from([0x89, 0x50, 0x4e, 0x47]);
 const GRID_CACHE_SIZE = 6;
+/** Rendered tiles kept in memory (about 2 KB each: a few MB in all). */
+const TILE_CACHE_SIZE = 2048;
 // A map's diff tiles are fetched a screenful at a time, so each pair's difference is kept: 1 byte
 // per base cell (about 1 MB for a 1240 × 840-cell demo map, 16 MB for 4000 × 4000), a few pairs.
 const DIFF_CACHE_SIZE = 4;
@@ -74,6 +77,8 @@ function readImage(file: UploadedFile): GreyImage {
 export class MapVersionsService {
   private readonly grids = new Map<string, OccupancyGrid>();
   private readonly fields = new Map<string, DistanceField>();
+  // Rendered grid tiles (1–3 KB each as PNG): a map's first zoom levels for every user of the site.
+  private readonly tiles = new AnswerCache<Buffer>(TILE_CACHE_SIZE);
   /** Differences by "baseId/otherId", least recently used first; a pending one is shared by the tiles that wait for it. */
   private readonly diffs = new Map<string, Promise<GridDiff>>();
 
@@ -203,7 +208,9 @@ export class MapVersionsService {
     // Visibility first: another organization's version answers 404 before any cache talk.
     const version = await this.find(actor, siteId, id);
     checkTile(version, z, x, y);
-    return { etag: `"${version.id}-s${TILE_STYLE}-${z}-${x}-${y}"`, render: async () => encodePng(renderTile(await this.grid(version), z, x, y)) };
+    const etag = `"${version.id}-s${TILE_STYLE}-${z}-${x}-${y}"`;
+    // A version's grid never changes, so a rendered tile stays right: it is remembered under its ETag.
+    return { etag, render: () => this.tiles.get(etag, '', async () => encodePng(renderTile(await this.grid(version), z, x, y))) };
   }
 
   /**

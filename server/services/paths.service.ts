@@ -3,6 +3,7 @@ import { LessThanOrEqual, MoreThanOrEqual, type DataSource } from 'typeorm';
 import { decodeTrail, simplifyTrack, splitTracks, type TrailPoints } from '../../shared/scan/trail.js';
 import type { Actor } from '../auth/actor.js';
 import { PoseTrail, Robot } from '../entities/index.js';
+import { AnswerCache } from './answer-cache.js';
 import type { MapVersionsService } from './map-versions.service.js';
 import type { SitesService } from './sites.service.js';
 
@@ -45,7 +46,25 @@ export class PathsService {
     const newest = await repo.findOne({ where: { mapVersionId: version.id, lastMs: LessThanOrEqual(now.getTime()) }, order: { lastMs: 'DESC' }, select: { id: true, lastMs: true } });
     const to = newest?.lastMs ?? now.getTime();
     const from = to - hours * 3_600_000;
-    const rows = newest ? await repo.find({ where: { mapVersionId: version.id, lastMs: MoreThanOrEqual(from), firstMs: LessThanOrEqual(to) } }) : [];
+    // Trails are only added (ingest) and removed (retention): their count and newest row id change with every write.
+    const [{ n, r }] = (await this.db.query('SELECT COUNT(*) AS n, MAX(rowid) AS r FROM pose_trails WHERE map_version_id = ?', [version.id])) as Array<{ n: number; r: number | null }>;
+    const tracks = await this.tracks.get(`${version.id}|${hours}`, `${to}|${n}|${r}`, () => this.tracksOf(version.id, from, to, newest !== null));
+    const robots = await this.db.getRepository(Robot).find({ where: { siteId: site.id }, order: { name: 'ASC' } });
+    return {
+      mapVersionId: version.id,
+      from: new Date(from).toISOString(),
+      to: new Date(to).toISOString(),
+      robots: robots.map((robot) => ({ robotId: robot.id, name: robot.name, tracks: tracks.get(robot.id) ?? [] })).filter((robot) => robot.tracks.length > 0),
+    };
+  }
+
+  // Decoding and simplifying a day of poses takes a good part of a second: remembered per version
+  // and window until a trail is added or removed.
+  private readonly tracks = new AnswerCache<Map<string, Array<Array<[number, number]>>>>(32);
+
+  /** Each robot's simplified tracks between `from` and `to` (ms) on a map version, by robot id. */
+  private async tracksOf(mapVersionId: string, from: number, to: number, any: boolean) {
+    const rows = any ? await this.db.getRepository(PoseTrail).find({ where: { mapVersionId, lastMs: MoreThanOrEqual(from), firstMs: LessThanOrEqual(to) } }) : [];
     const byRobot = new Map<string, TrailPoints>();
     for (const row of rows) {
       const p = decodeTrail(inflateRawSync(row.data));
@@ -58,14 +77,8 @@ export class PathsService {
         into.y.push(p.y[k]);
       }
     }
-    const robots = await this.db.getRepository(Robot).find({ where: { siteId: site.id }, order: { name: 'ASC' } });
-    return {
-      mapVersionId: version.id,
-      from: new Date(from).toISOString(),
-      to: new Date(to).toISOString(),
-      robots: robots
-        .map((r) => ({ robotId: r.id, name: r.name, tracks: lighten(splitTracks(byRobot.get(r.id) ?? { t: [], x: [], y: [] }), MAX_POSES_PER_ROBOT) }))
-        .filter((r) => r.tracks.length > 0),
-    };
+    const out = new Map<string, Array<Array<[number, number]>>>();
+    for (const [robotId, points] of byRobot) out.set(robotId, lighten(splitTracks(points), MAX_POSES_PER_ROBOT));
+    return out;
   }
 }

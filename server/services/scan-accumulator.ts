@@ -8,7 +8,7 @@ import { TrailThinner, type TrailPoints } from '../../shared/scan/trail.js';
 import type { OccupancyGrid } from '../../shared/types/grid.js';
 import type { Robot } from '../entities/index.js';
 import type { RejectedLine } from '../entities/scan-batch.entity.js';
-import { ChunkSpill } from './chunk-spill.js';
+import { ChunkSpill, type ChunkKey, type PendingChunk } from './chunk-spill.js';
 
 /** Most refused lines kept with their reasons per batch; the count covers all. */
 export const MAX_REJECTED_KEPT = 200;
@@ -51,6 +51,15 @@ export interface PendingTrail {
   day: string;
   points: TrailPoints;
 }
+
+/** A chunk's counters still unpacked (a (robot, day) pair that stayed in memory to the end of the batch). */
+export interface UnpackedChunk extends ChunkKey {
+  hits: Uint32Array;
+  passes: Uint32Array;
+}
+
+/** A chunk of the batch's counters: packed in the spill, or still unpacked. */
+export type BatchChunk = PendingChunk | UnpackedChunk;
 
 /** Scans and returns of one UTC hour (the quiet-window planner's traffic). */
 export interface PendingHour {
@@ -197,13 +206,24 @@ export class ScanAccumulator {
     stat.outOfMap += f.outOfMap;
   }
 
-  /** Packs what is still in memory; returns the per-robot-day figures, agreement blocks, samples, trails and hourly traffic. Chunks are in `spill`. */
+  /** Returns the per-robot-day figures, agreement blocks, samples, trails and hourly traffic; the counters come from `chunks()`. */
   finish(): { stats: PendingStat[]; blocks: PendingBlocks[]; samples: PendingSample[]; trails: PendingTrail[]; hours: PendingHour[] } {
-    for (const key of [...this.resident.keys()]) this.pack(key);
     this.figures.days = [...this.daySet].sort();
     const samples = [...this.samples.values()].map(({ robotId, scanner, day, lines }) => ({ robotId, scanner, day, lines }));
     const trails = [...this.trails.values()].map(({ robotId, day, thinner }) => ({ robotId, day, points: thinner.points }));
     return { stats: [...this.stats.values()], blocks: [...this.blocks.values()], samples, trails, hours: [...this.hours.values()] };
+  }
+
+  /**
+   * The batch's counters one chunk at a time: the packed ones from the spill, then those of the
+   * pairs still in memory, unpacked (packing them only to unpack them again in the store would
+   * cost two zlib passes a chunk), split pair by pair so that memory stays as it is.
+   */
+  *chunks(): Generator<BatchChunk> {
+    yield* this.spill.chunks();
+    for (const { robotId, day, counters } of this.resident.values()) {
+      for (const c of splitIntoChunks(this.ctx.grid.width, this.ctx.grid.height, counters.hits, counters.passes)) yield { robotId, day, cx: c.cx, cy: c.cy, hits: c.hits, passes: c.passes };
+    }
   }
 
   // Per robot, not per scanner: every scanner of a robot reports the same base pose.

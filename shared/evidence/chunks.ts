@@ -17,6 +17,8 @@ export interface EvidenceChunk {
 }
 
 const UINT32_MAX = 0xffff_ffff;
+/** True when typed arrays on this machine hold numbers in little-endian order, the stored order. */
+const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
 
 function checkCounters(width: number, height: number, hits: Uint32Array, passes: Uint32Array, chunkSize: number): void {
   if (hits.length !== width * height || passes.length !== width * height) {
@@ -120,6 +122,12 @@ export function encodeChunkCounters(hits: Uint32Array, passes: Uint32Array): Uin
   if (hits.length !== passes.length) throw new RangeError('Hits and passes must hold the same number of cells.');
   const n = hits.length;
   const out = new Uint8Array(8 * n);
+  if (LITTLE_ENDIAN) {
+    // The machine's own order is the stored one: two block copies instead of 2n calls.
+    out.set(new Uint8Array(hits.buffer, hits.byteOffset, 4 * n), 0);
+    out.set(new Uint8Array(passes.buffer, passes.byteOffset, 4 * n), 4 * n);
+    return out;
+  }
   // DataView fixes the byte order; a typed-array view would follow the machine's.
   const view = new DataView(out.buffer);
   for (let k = 0; k < n; k++) {
@@ -141,9 +149,14 @@ export function decodeChunkCounters(bytes: Uint8Array, expectedCells?: number): 
   if (expectedCells !== undefined && n !== expectedCells) {
     throw new RangeError(`Stored chunk counters hold ${n} cells where ${expectedCells} were expected.`);
   }
-  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const hits = new Uint32Array(n);
   const passes = new Uint32Array(n);
+  if (LITTLE_ENDIAN) {
+    new Uint8Array(hits.buffer).set(bytes.subarray(0, 4 * n));
+    new Uint8Array(passes.buffer).set(bytes.subarray(4 * n, 8 * n));
+    return { hits, passes };
+  }
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   for (let k = 0; k < n; k++) {
     hits[k] = view.getUint32(4 * k, true);
     passes[k] = view.getUint32(4 * (n + k), true);

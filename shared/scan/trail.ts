@@ -91,15 +91,6 @@ export function decodeTrail(bytes: Uint8Array): TrailPoints {
   return points;
 }
 
-/** Distance from p to the segment a–b, metres. */
-function segmentDistance(p: [number, number], a: [number, number], b: [number, number]): number {
-  const dx = b[0] - a[0];
-  const dy = b[1] - a[1];
-  const len2 = dx * dx + dy * dy;
-  const u = len2 === 0 ? 0 : Math.max(0, Math.min(1, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / len2));
-  return Math.hypot(p[0] - (a[0] + u * dx), p[1] - (a[1] + u * dy));
-}
-
 /**
  * Simplifies a track by the Ramer–Douglas–Peucker rule (Ramer 1972; Douglas & Peucker 1973): keeps
  * the ends and, recursively, the pose farthest from the chord while it lies more than `toleranceM`
@@ -107,25 +98,46 @@ function segmentDistance(p: [number, number], a: [number, number], b: [number, n
  */
 export function simplifyTrack(track: Array<[number, number]>, toleranceM: number): Array<[number, number]> {
   if (track.length <= 2) return track.slice();
-  const keep = new Uint8Array(track.length);
+  const n = track.length;
+  const keep = new Uint8Array(n);
   keep[0] = 1;
-  keep[track.length - 1] = 1;
+  keep[n - 1] = 1;
+  // Flat coordinates and squared distances: the inner loop runs millions of times for a day's
+  // track, and comparing squares keeps the same poses as comparing distances.
+  const xs = new Float64Array(n);
+  const ys = new Float64Array(n);
+  for (let k = 0; k < n; k++) {
+    xs[k] = track[k][0];
+    ys[k] = track[k][1];
+  }
   // An explicit stack instead of recursion: a day's track can hold tens of thousands of poses.
-  const stack: Array<[number, number]> = [[0, track.length - 1]];
+  const stack: number[] = [0, n - 1];
   while (stack.length > 0) {
-    const [first, last] = stack.pop()!;
+    const last = stack.pop()!;
+    const first = stack.pop()!;
+    const ax = xs[first];
+    const ay = ys[first];
+    const dx = xs[last] - ax;
+    const dy = ys[last] - ay;
+    const len2 = dx * dx + dy * dy;
     let worst = -1;
-    let worstDistance = toleranceM;
+    let worstSquared = toleranceM * toleranceM;
     for (let k = first + 1; k < last; k++) {
-      const d = segmentDistance(track[k], track[first], track[last]);
-      if (d > worstDistance) {
+      // Squared distance from pose k to the segment first–last (to its nearer end beyond the ends).
+      const px = xs[k] - ax;
+      const py = ys[k] - ay;
+      const u = len2 === 0 ? 0 : Math.max(0, Math.min(1, (px * dx + py * dy) / len2));
+      const ex = px - u * dx;
+      const ey = py - u * dy;
+      const d2 = ex * ex + ey * ey;
+      if (d2 > worstSquared) {
         worst = k;
-        worstDistance = d;
+        worstSquared = d2;
       }
     }
     if (worst < 0) continue;
     keep[worst] = 1;
-    stack.push([first, worst], [worst, last]);
+    stack.push(first, worst, worst, last);
   }
   return track.filter((_, k) => keep[k] === 1);
 }

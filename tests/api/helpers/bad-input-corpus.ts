@@ -476,10 +476,11 @@ const deepJson = (depth: number) => '{"a":'.repeat(depth) + '1' + '}'.repeat(dep
  * API cases for every route in the table: bad path parameters; for routes that take a JSON body,
  * bodies of the wrong shape, unknown fields, fields of the wrong type, huge strings and arrays,
  * missing fields, broken JSON, oversize and wrongly encoded bodies; for routes with a validated
- * query, bad and unknown query parameters. Returns the cases and the routes left without any
- * (those that take no input a client could get wrong).
+ * query, bad and unknown query parameters. Returns the cases, the routes left without any (those
+ * that take no input a client could get wrong) and the keys of BODIES and QUERIES that name no
+ * route of the table (a renamed route would otherwise lose its cases silently).
  */
-export function apiCases(ctx: CorpusContext): { cases: BadCase[]; untouched: string[] } {
+export function apiCases(ctx: CorpusContext): { cases: BadCase[]; untouched: string[]; stale: string[] } {
   const cases: BadCase[] = [];
   const untouched: string[] = [];
   let bodyRoutes = 0;
@@ -542,5 +543,6 @@ export function apiCases(ctx: CorpusContext): { cases: BadCase[]; untouched: str
     }
     if (cases.length === before) untouched.push(route);
   }
-  return { cases, untouched };
+  const stale = [...Object.keys(BODIES), ...Object.keys(QUERIES)].filter((route) => !ctx.routes.includes(route));
+  return { cases, untouched, stale };
 }

@@ -22,7 +22,8 @@ export async function runRestore(argv: string[], env: NodeJS.ProcessEnv = proces
     process.stderr.write(`restore: name exactly one backup file.\n\n${USAGE}`);
     return 2;
   }
-  const config = loadConfig(env);
+  // The restore signs nothing: a stand-in secret keeps loadConfig from writing secret.key into the data directory.
+  const config = loadConfig({ ...env, DRIFTLINE_SESSION_SECRET: env.DRIFTLINE_SESSION_SECRET ?? 'restore-signs-nothing-'.padEnd(32, '-') });
   // npm runs scripts from the package folder; a relative FILE means the folder the command was typed in.
   const file = path.resolve(env.INIT_CWD ?? process.cwd(), argv[0]);
   const started = performance.now();

@@ -113,6 +113,18 @@ surveyed_by: ines.okafor@harbourlight.example
     expect(messageOf(() => parseMapMetadata(''))).toMatch(/must be a YAML mapping/);
     expect(messageOf(() => parseMapMetadata('- a\n- b\n'))).toMatch(/must be a YAML mapping/);
   });
+
+  it('when the text is longer than 8 KB or nests more than 8 deep, then it is refused before the YAML parser reads it', () => {
+    // A million nested brackets kept the parser busy for half a minute; these answer at once.
+    expect(messageOf(() => parseMapMetadata(`${FULL}#${'x'.repeat(8 * 1024)}\n`))).toMatch(/^The map metadata file holds 8,3\d\d characters; .* at most 8,192 are accepted\.$/);
+    expect(messageOf(() => parseMapMetadata(`${FULL}extra: ${'['.repeat(9)}${']'.repeat(9)}\n`))).toBe("The map metadata nests lists or mappings more than 8 deep; a map's metadata needs one level.");
+    expect(messageOf(() => parseMapMetadata('['.repeat(1_000_000)))).toMatch(/at most 8,192 are accepted/);
+  });
+
+  it('when brackets stand in quotes or comments, then they do not count as nesting', () => {
+    const text = `${FULL}note: "${'['.repeat(20)}"\n# ${'{'.repeat(20)}\n`;
+    expect(parseMapMetadata(text).image).toBe('harbourlight-hall-b.pgm');
+  });
 });
 
 describe('formatMapMetadata', () => {

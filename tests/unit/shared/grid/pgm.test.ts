@@ -167,6 +167,11 @@ describe('parsePgm', () => {
     expectFormatError(() => parsePgm(ascii('P2 2 1 15\n1 16\n')), /column 1, row 0.*16, above the header's maximum of 15/);
   });
 
+  it('when a short P2 file claims a huge size, then it is refused before memory for that size is taken', () => {
+    // 10,000 × 10,000 values need at least 199,999,999 bytes of digits and separators.
+    expectFormatError(() => parsePgm(ascii('P2 10000 10000 255\n0 0 0\n')), /10,000 × 10,000 pixels but the file's 7 bytes after the header cannot hold that many grey values/);
+  });
+
   it('when a P5 sample exceeds maxval, then it is rejected with its position', () => {
     expectFormatError(() => parsePgm(withRaster('P5 2 2 100\n', [0, 0, 0, 101])), /column 1, row 1.*101/);
   });

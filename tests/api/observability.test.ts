@@ -26,21 +26,31 @@ const failedRun = (job: JobRun['job'], error: string, startedAt: Date, siteId: s
   figures: null,
 });
 
+/** Within a describe: a test app whose data directory is a fresh temporary folder, with an admin's session; closed and removed after the suite. */
+function appWithDataDir(prefix: string) {
+  const ctx = {} as { t: TestApp; dir: string; admin: string };
+  beforeAll(async () => {
+    ctx.dir = mkdtempSync(path.join(os.tmpdir(), prefix));
+    ctx.t = await createTestApp({ config: { dataDir: ctx.dir } });
+    ctx.admin = await signIn(ctx.t.app, demoAccount('admin').email, demoAccount('admin').password);
+  });
+  afterAll(async () => {
+    if (ctx.t.dataSource.isInitialized) await ctx.t.close();
+    rmSync(ctx.dir, { recursive: true, force: true });
+  });
+  return ctx;
+}
+
 describe('health endpoint', () => {
+  const ctx = appWithDataDir('driftline-health-');
   let t: TestApp;
   let dir: string;
   let admin: string;
   let manager: string;
 
   beforeAll(async () => {
-    dir = mkdtempSync(path.join(os.tmpdir(), 'driftline-health-'));
-    t = await createTestApp({ config: { dataDir: dir } });
-    admin = await signIn(t.app, demoAccount('admin').email, demoAccount('admin').password);
+    ({ t, dir, admin } = ctx);
     manager = await signIn(t.app, demoAccount('site_manager').email, demoAccount('site_manager').password);
-  });
-  afterAll(async () => {
-    if (t.dataSource.isInitialized) await t.close();
-    rmSync(dir, { recursive: true, force: true });
   });
 
   it('when nothing has run yet, then health is ok with the database, every job kind as never run, the disk and the demo progress', async () => {
@@ -165,18 +175,12 @@ describe('request ids', () => {
 });
 
 describe('job runs of every kind', () => {
+  const ctx = appWithDataDir('driftline-runs-');
   let t: TestApp;
-  let dir: string;
   let admin: string;
 
-  beforeAll(async () => {
-    dir = mkdtempSync(path.join(os.tmpdir(), 'driftline-runs-'));
-    t = await createTestApp({ config: { dataDir: dir } });
-    admin = await signIn(t.app, demoAccount('admin').email, demoAccount('admin').password);
-  });
-  afterAll(async () => {
-    await t.close();
-    rmSync(dir, { recursive: true, force: true });
+  beforeAll(() => {
+    ({ t, admin } = ctx);
   });
 
   it('when an admin runs the backup now, then it starts in the background and its run lists with the file it made', async () => {

@@ -87,7 +87,9 @@ export function parseMapMetadata(yamlText: string): MapMetadata {
   checkSize(yamlText);
   let doc: unknown;
   try {
-    doc = parse(yamlText);
+    // Warnings (an unknown tag) would go to the process log for every upload; the schema below
+    // refuses what such a value turns into.
+    doc = parse(yamlText, { logLevel: 'error' });
   } catch (e) {
     // The YAML library's own message names the line and column; keep only its first line.
     const detail = (e instanceof Error ? e.message : String(e)).split('\n')[0].replace(/[.:]\s*$/, '');

@@ -6,6 +6,9 @@ import type { JobName } from '../entities/job-run.entity.js';
 /** Every job kind the health answer reports on, in the order the admin page shows them. */
 export const JOB_KINDS: readonly JobName[] = ['detection', 'retention', 'report', 'backup'];
 
+/** Age of the newest successful backup after which health warns: two days, so one missed night passes and a second does not (product choice). */
+export const STALE_BACKUP_MS = 2 * 86_400_000;
+
 /** Free space below which the data directory's disk counts as low: 1 GiB (product choice). */
 export const LOW_DISK_BYTES = 1024 ** 3;
 
@@ -34,8 +37,8 @@ export class SystemStatusService {
     private readonly lowDiskBytes = LOW_DISK_BYTES,
   ) {}
 
-  /** The current status; `detailed` adds error texts and byte counts (admins). */
-  async check(detailed: boolean): Promise<SystemStatus> {
+  /** The status at `now`; `detailed` adds error texts and byte counts (admins). */
+  async check(detailed: boolean, now = new Date()): Promise<SystemStatus> {
     const disk = this.disk(detailed);
     let rows: LatestRow[];
     try {
@@ -58,6 +61,12 @@ export class SystemStatusService {
       if (failed.length > 0) warnings.push(job === 'detection' && failed.length > 1 ? `The last change detection failed on ${failed.length} sites.` : `The last ${JOB_WORDS[job]} run failed.`);
       jobs[job] = entry;
     }
+    // Backups that quietly stopped (the server was down at night, the schedule lost) are a warning too;
+    // a database that never had one (a fresh install) is not.
+    const lastGood = rows.length === 0 ? null : await this.lastSucceededBackup();
+    if (lastGood !== null && now.getTime() - lastGood.getTime() > STALE_BACKUP_MS && jobs.backup.status !== 'failed') {
+      warnings.push('The newest successful backup is more than 2 days old.');
+    }
     return { status: warnings.length > 0 ? 'warn' : 'ok', database: 'ok', warnings, jobs, disk };
   }
 
@@ -70,6 +79,11 @@ export class SystemStatusService {
        WHERE r.started_at = (SELECT MAX(q.started_at) FROM job_runs q WHERE q.job = r.job AND COALESCE(q.site_id, '') = COALESCE(r.site_id, ''))
          AND (r.site_id IS NULL OR r.site_id IN (SELECT id FROM sites))`,
     ) as Promise<LatestRow[]>;
+  }
+
+  private async lastSucceededBackup(): Promise<Date | null> {
+    const [row] = (await this.db.query(`SELECT MAX(finished_at) AS at FROM job_runs WHERE job = 'backup' AND status = 'succeeded'`)) as Array<{ at: string | null }>;
+    return row?.at ? new Date(iso(row.at)!) : null;
   }
 
   private disk(detailed: boolean): DiskStatus {

@@ -97,6 +97,13 @@ describe('health endpoint', () => {
     expect((await request(t.app).get('/api/health')).body.status).toBe('ok');
   });
 
+  it('when the newest successful backup is more than 2 days old, then health warns until a new one is made', async () => {
+    const later = new Date(Date.now() + 3 * 86_400_000);
+    const status = new SystemStatusService(t.dataSource, dir);
+    expect((await status.check(false, later)).warnings).toContain('The newest successful backup is more than 2 days old.');
+    expect((await status.check(false)).warnings).not.toContain('The newest successful backup is more than 2 days old.');
+  });
+
   it('when one site’s last detection failed while others succeeded later, then health still warns about that site', async () => {
     const ids = await demoIds(t.dataSource);
     const at = new Date(Date.now() + 10 * 60_000);

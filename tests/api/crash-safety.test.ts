@@ -33,8 +33,8 @@ const KILLS = Number(process.env.CRASH_KILLS ?? 24);
 const SCANS_PER_BATCH = 30;
 /** Robot batches posted at the same time. */
 const WORKERS = 3;
-/** Which life of the server is killed while it reads the uploaded log. */
-const UPLOAD_LIFE = 3;
+/** Which life of the server is killed while it reads the uploaded log (the fourth, or the last of fewer). */
+const UPLOAD_LIFE = Math.min(3, KILLS - 1);
 const CHUNK_CELLS = DEFAULT_CHUNK_SIZE * DEFAULT_CHUNK_SIZE;
 const SITE = 'Fennick Cross DC';
 const MAPPER = { email: 'tomas.mapper@kestrelway.example', password: 'demo-mapper-2026' };

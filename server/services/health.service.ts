@@ -1,6 +1,6 @@
-import { In, MoreThanOrEqual, type DataSource } from 'typeorm';
+import { In, type DataSource } from 'typeorm';
 import { forecastHealth, healthBand, healthScore } from '../../shared/health/score.js';
-import { AgreementBlocks, DailyStat, RemapRequest, RobotFlag, Robot, Site, Zone } from '../entities/index.js';
+import { AgreementBlocks, RemapRequest, RobotFlag, Robot, Site, Zone } from '../entities/index.js';
 import { ACTIVE_ZONE_STATUSES } from '../entities/zone.entity.js';
 import type { Actor } from '../auth/actor.js';
 import { decodeCounts } from './evidence-store.js';
@@ -98,17 +98,11 @@ export class HealthService {
     const version = await this.mapVersions.activeFloor(site.id);
     if (!version) return days.map((day) => ({ day, returns: 0, explained: 0, score: null as number | null }));
     const { excludes } = exclusions ?? (await this.exclusions(site));
-    const rows: Array<{ day: string; robotId: string; returns: number; explained: number }> = await this.db
-      .getRepository(DailyStat)
-      .createQueryBuilder('d')
-      .select('d.day', 'day')
-      .addSelect('d.robot_id', 'robotId')
-      .addSelect('SUM(d.returns)', 'returns')
-      .addSelect('SUM(d.explained)', 'explained')
-      .where('d.site_id = :siteId AND d.map_version_id = :v AND d.day >= :from AND d.day <= :to', { siteId: site.id, v: version.id, from: days[0], to: days[days.length - 1] })
-      .groupBy('d.day')
-      .addGroupBy('d.robot_id')
-      .getRawMany();
+    // Plain SQL: the fleet overview asks this for every site, and building the query cost more than running it.
+    const rows: Array<{ day: string; robotId: string; returns: number; explained: number }> = await this.db.query(
+      'SELECT day, robot_id AS robotId, SUM(returns) AS returns, SUM(explained) AS explained FROM daily_stats WHERE site_id = ? AND map_version_id = ? AND day >= ? AND day <= ? GROUP BY day, robot_id',
+      [site.id, version.id, days[0], days[days.length - 1]],
+    );
     const byDay = new Map<string, { returns: number; explained: number }>();
     for (const r of rows) {
       if (excludes(r.robotId, r.day)) continue;
@@ -140,8 +134,12 @@ export class HealthService {
     const zones = await this.db.getRepository(Zone).find({ where: { siteId: site.id, status: In(ACTIVE_ZONE_STATUSES) }, select: { id: true, kind: true, areaM2: true, persistence: true } });
     const openZones = { new: 0, missing: 0, unmapped: 0 };
     for (const z of zones) openZones[z.kind]++;
-    const remaps = this.db.getRepository(RemapRequest);
-    const next = await remaps.findOne({ where: { siteId: site.id, status: In(['scheduled', 'in_progress']), windowEnd: MoreThanOrEqual(now) }, order: { windowStart: 'ASC' } });
+    // One read for both remap figures: the requests waiting to be scheduled and the next window.
+    const open = await this.db.getRepository(RemapRequest).find({ where: { siteId: site.id, status: In(['proposed', 'scheduled', 'in_progress']) }, select: { id: true, number: true, title: true, status: true, windowStart: true, windowEnd: true } });
+    // As ORDER BY window_start would: a request without a start comes first.
+    const next = open
+      .filter((r) => r.status !== 'proposed' && r.windowEnd !== null && r.windowEnd.getTime() >= now.getTime())
+      .sort((a, b) => (a.windowStart === null || b.windowStart === null ? Number(b.windowStart === null) - Number(a.windowStart === null) : a.windowStart.getTime() - b.windowStart.getTime()))[0];
     return {
       score,
       band: score === null ? null : healthBand(score, limits),
@@ -162,7 +160,7 @@ export class HealthService {
       flaggedRobots: exclusions.active.length,
       nextRemap: next && next.windowStart && next.windowEnd ? { id: next.id, number: next.number, title: next.title, status: next.status, start: next.windowStart.toISOString(), end: next.windowEnd.toISOString() } : null,
       // Requests waiting to be scheduled (proposed).
-      remapsWaiting: await remaps.countBy({ siteId: site.id, status: 'proposed' }),
+      remapsWaiting: open.filter((r) => r.status === 'proposed').length,
     };
   }
 }

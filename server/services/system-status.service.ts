@@ -71,13 +71,14 @@ export class SystemStatusService {
   }
 
   // The newest run of each job kind and site (a per-site job's sites each have their own last run;
-  // a removed site's runs no longer count); the (job, started_at) index answers the inner query.
+  // a removed site's runs no longer count). With MAX() in a grouped query SQLite takes the other
+  // columns from the row that holds the maximum ("bare columns", SQLite's SELECT documentation).
   private async latestRuns(): Promise<LatestRow[]> {
     if (!this.db.isInitialized) throw new Error('The database is closed.');
     return this.db.query(
-      `SELECT r.job, r.status, r.started_at, r.finished_at, r.error FROM job_runs r
-       WHERE r.started_at = (SELECT MAX(q.started_at) FROM job_runs q WHERE q.job = r.job AND COALESCE(q.site_id, '') = COALESCE(r.site_id, ''))
-         AND (r.site_id IS NULL OR r.site_id IN (SELECT id FROM sites))`,
+      `SELECT job, status, MAX(started_at) AS started_at, finished_at, error FROM job_runs
+       WHERE site_id IS NULL OR site_id IN (SELECT id FROM sites)
+       GROUP BY job, site_id`,
     ) as Promise<LatestRow[]>;
   }
 

@@ -6,7 +6,8 @@ import type { DataSource } from 'typeorm';
 // await inside their transactions would then share one: a rollback of either could undo the
 // other's writes. This lock makes a transaction exclusive: queries outside it wait until it
 // ends, queries inside it (same async context) pass, and a transaction waits for queries in
-// flight to finish before it begins.
+// flight to finish before it begins. Turns are taken in order of arrival: a query that arrives
+// after a waiting transaction waits for it, so a steady stream of reads cannot keep a write out.
 
 interface LockState {
   /** Queries running outside any transaction. */
@@ -15,6 +16,10 @@ interface LockState {
   owner: symbol | null;
   /** Resolves when the state may have changed; waiters re-check. */
   waiters: Array<() => void>;
+  /** Arrival numbers of the transactions waiting for their turn, oldest first. */
+  queued: number[];
+  /** The next arrival number. */
+  arrivals: number;
 }
 
 const context = new AsyncLocalStorage<symbol>();
@@ -28,11 +33,17 @@ function wake(state: LockState) {
 const changed = (state: LockState) => new Promise<void>((resolve) => state.waiters.push(resolve));
 
 async function acquireExclusive(state: LockState): Promise<symbol> {
-  while (state.owner !== null || state.inFlight > 0) await changed(state);
+  const ticket = state.arrivals++;
+  state.queued.push(ticket);
+  while (state.owner !== null || state.inFlight > 0 || state.queued[0] !== ticket) await changed(state);
+  state.queued.shift();
   const token = Symbol('transaction');
   state.owner = token;
   return token;
 }
+
+/** True while a query that arrived as `ticket` must wait: a transaction runs, or one that arrived earlier waits. */
+const queryWaits = (state: LockState, ticket: number) => state.owner !== null || (state.queued.length > 0 && state.queued[0] < ticket);
 
 function releaseExclusive(state: LockState) {
   state.owner = null;
@@ -41,14 +52,15 @@ function releaseExclusive(state: LockState) {
 
 /** Patches the DataSource so transactions never interleave with other queries; call once after initialize. */
 export function installTransactionLock(dataSource: DataSource): void {
-  const state: LockState = { inFlight: 0, owner: null, waiters: [] };
+  const state: LockState = { inFlight: 0, owner: null, waiters: [], queued: [], arrivals: 0 };
   states.set(dataSource, state);
 
   const runner = dataSource.driver.createQueryRunner('master');
   const query = runner.query.bind(runner);
   runner.query = (async (...args: Parameters<typeof query>) => {
     if (state.owner !== null && context.getStore() === state.owner) return query(...args);
-    while (state.owner !== null) await changed(state);
+    const ticket = state.arrivals++;
+    while (queryWaits(state, ticket)) await changed(state);
     state.inFlight++;
     try {
       return await query(...args);

@@ -40,4 +40,28 @@ describe('transaction lock', () => {
     expect((await db.getRepository(Organization).find({ order: { name: 'ASC' } })).map((o) => o.name)).toEqual(['Org 3', 'Org 4']);
     await db.destroy();
   });
+
+  it('when a read arrives after a waiting transaction, then it waits for that transaction: reads cannot keep a write out', async () => {
+    const db = await openDatabase({ database: ':memory:' });
+    const order: string[] = [];
+    let release!: () => void;
+    const gate = new Promise<void>((resolve) => (release = resolve));
+    // The first transaction holds the database while a read, a second transaction and another read arrive in that order.
+    const first = db.transaction(async (m) => {
+      await m.insert(Organization, org(7));
+      await gate;
+    });
+    await tick();
+    const earlyRead = db.query('SELECT 1').then(() => order.push('early read'));
+    const second = db.transaction(async (m) => {
+      await m.insert(Organization, org(8));
+      order.push('second transaction');
+    });
+    const lateRead = db.query('SELECT 1').then(() => order.push('late read'));
+    await tick();
+    release();
+    await Promise.all([first, earlyRead, second, lateRead]);
+    expect(order).toEqual(['early read', 'second transaction', 'late read']);
+    await db.destroy();
+  });
 });

@@ -1,12 +1,13 @@
 import { createReadStream } from 'node:fs';
 import { Transform } from 'node:stream';
 import { createGunzip } from 'node:zlib';
+import { MAX_SCAN_LINE_CHARS } from '../../shared/scan/scan-record.js';
 import { HttpError } from '../http-error.js';
 
 /** Unpacked bytes at the start of an uploaded scan log that are read before it is accepted (product choice). */
 export const LOG_HEAD_BYTES = 1024 * 1024;
-/** Longest line of a scan log, bytes: a scan of 10,000 beams (the most accepted) at ~20 characters a beam fits five times (product choice). */
-export const LOG_MAX_LINE_BYTES = 1024 * 1024;
+/** Longest line of a scan log, bytes: the line parser's limit in characters (a character is at least one byte). */
+export const LOG_MAX_LINE_BYTES = MAX_SCAN_LINE_CHARS;
 
 const MB = (bytes: number) => `${bytes / 1024 / 1024} MB`;
 

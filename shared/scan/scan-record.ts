@@ -44,6 +44,13 @@ export const DEFAULT_MAX_FUTURE_MS = 5 * 60 * 1000;
 /** Default most beams per scan; common scanners give a few hundred to a few thousand. A product choice. */
 export const DEFAULT_MAX_BEAMS = 10_000;
 
+/**
+ * Longest line read as a scan, characters: a scan of DEFAULT_MAX_BEAMS beams at ~20 characters a
+ * beam fits five times. Longer lines are refused unread, since parsing deeply nested JSON of that
+ * size holds the process for seconds (a product choice).
+ */
+export const MAX_SCAN_LINE_CHARS = 1024 * 1024;
+
 /** Thrown inside parseScanLine to leave with a reason; never escapes it. */
 class Refusal {
   constructor(readonly reason: string) {}
@@ -120,6 +127,9 @@ export type LogLineResult = ScanLineResult | { ok: true; poseReport: PoseReport 
 /** Reads the JSON object of a line, or the reason it is not one. */
 function readObject(line: string): Record<string, unknown> | { refused: string } {
   if (line.trim() === '') return { refused: 'The line is empty.' };
+  if (line.length > MAX_SCAN_LINE_CHARS) {
+    return { refused: `The line holds ${line.length.toLocaleString('en-US')} characters; a scan line has at most ${MAX_SCAN_LINE_CHARS.toLocaleString('en-US')}.` };
+  }
   let doc: unknown;
   try {
     doc = JSON.parse(line);

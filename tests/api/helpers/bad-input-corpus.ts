@@ -324,6 +324,7 @@ export function logCases(ctx: CorpusContext): BadCase[] {
   robot('Content-Encoding gzip over plain text', good, { 'Content-Encoding': 'gzip' });
   robot('Content-Encoding of an unknown kind', good, { 'Content-Encoding': 'compress' });
   robot('33 MB plain body', Buffer.concat([good, Buffer.alloc(33 * 1024 * 1024, 0x20)]));
+  robot('one line of 4 million nested lists', '['.repeat(4_000_000) + ']'.repeat(4_000_000));
   upload('gzip magic and garbage', Buffer.concat([Buffer.from([0x1f, 0x8b]), raster(64, 0x55)]), 'drive.jsonl.gz');
   upload('gzip cut in half', gz(Buffer.concat(Array.from({ length: 50 }, () => good))).subarray(0, 60), 'drive.jsonl.gz');
   upload('gzip with a damaged checksum', damagedCrc(gz(good)), 'drive.jsonl.gz');

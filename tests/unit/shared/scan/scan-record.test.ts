@@ -71,6 +71,11 @@ describe('parseScanLine', () => {
     expect(reasonOf('42')).toBe('The line is not a JSON object.');
   });
 
+  it('when the line is longer than a scan line can be, then it is refused unread', () => {
+    // Four million nested lists on one line: parsed, they would hold the process for about a second.
+    expect(reasonOf('['.repeat(4_000_000) + ']'.repeat(4_000_000))).toBe('The line holds 8,000,000 characters; a scan line has at most 1,048,576.');
+  });
+
   it('when a field is missing or has the wrong type, then the reason names it', () => {
     expect(reasonOf(line({}, ['scanner']))).toBe('The scan has no "scanner" field.');
     expect(reasonOf(line({}, ['ranges']))).toBe('The scan has no "ranges" field.');

@@ -26,6 +26,7 @@ import { TILE_STYLE } from '../../shared/render/palette.js';
 import { tileCount, tilePyramid } from '../../shared/render/tiles.js';
 import { createScenario } from '../../shared/sim/scenario.js';
 import { DEMO_ACCOUNTS, SITES as DEMO_SITES } from '../../server/services/demo-seed.service.js';
+import { waitForDetection } from '../e2e/helpers.mjs';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 
@@ -191,34 +192,19 @@ interface SiteRow {
   timezone: string;
 }
 
-/** Waits until the demo is seeded and every site has a succeeded detection run (admin session); returns the sites. */
+/**
+ * Waits until the demo is seeded and every site has a succeeded detection run, with the browser
+ * tests' own wait (tests/e2e/helpers.mjs), here over fetch with the admin's cookie; returns the sites.
+ */
 async function waitForDemo(baseUrl: string, admin: Session): Promise<SiteRow[]> {
-  const deadline = Date.now() + 10 * 60_000;
-  let last = 'no answer yet';
-  let lastPrinted = '';
-  while (Date.now() < deadline) {
-    try {
-      const health = await call<{ demo?: { state: string; sitesDone: number; sitesTotal: number } }>(baseUrl, 'GET', '/api/health', { timeoutMs: 10_000 });
-      if (health.demo?.state === 'failed') fail('The demo seeding failed (GET /api/health says demo.state "failed").');
-      if (health.demo?.state === 'ready' || health.demo?.state === 'none') {
-        const { sites } = await call<{ sites: SiteRow[] }>(baseUrl, 'GET', '/api/sites', { cookie: admin.cookie });
-        const { runs } = await call<{ runs: Array<{ siteId: string; status: string }> }>(baseUrl, 'GET', '/api/job-runs?job=detection&limit=200', { cookie: admin.cookie });
-        const done = new Set(runs.filter((r) => r.status === 'succeeded').map((r) => r.siteId));
-        const missing = sites.filter((s) => !done.has(s.id)).map((s) => s.name);
-        if (missing.length === 0) return sites;
-        last = `detection still to run for ${missing.join(', ')}`;
-      } else {
-        last = `demo ${health.demo?.state ?? 'unknown'}, ${health.demo?.sitesDone ?? 0} of ${health.demo?.sitesTotal ?? '?'} sites loaded`;
-      }
-    } catch (error) {
-      // While the demo loads, the busy server may answer late: that is "not ready yet".
-      last = `the server answered slowly (${(error as Error).message.split('\n')[0]})`;
-    }
-    if (last !== lastPrinted) console.log(`  waiting: ${last}`);
-    lastPrinted = last;
-    await sleep(3000);
-  }
-  fail(`The demo's detection did not finish within 10 minutes (${last}).`);
+  const api = {
+    get: async (url: string) => {
+      const response = await fetch(url, { headers: { cookie: admin.cookie }, signal: AbortSignal.timeout(10_000) });
+      const text = await response.text();
+      return { ok: () => response.ok, status: () => response.status, json: async () => JSON.parse(text) as unknown };
+    },
+  };
+  return (await waitForDetection(api, baseUrl)) as SiteRow[];
 }
 
 // ---------------------------------------------------------------------------------------------

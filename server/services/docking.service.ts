@@ -16,6 +16,7 @@ import type { AuditService } from './audit.service.js';
 import { rawHandle, sqliteDatetime } from './evidence-store.js';
 import { newId } from './ids.js';
 import { MAX_REJECTED_KEPT } from './scan-accumulator.js';
+import { localDayFinder } from './site-days.js';
 import { siteSettings } from './site-settings.js';
 import type { SitesService } from './sites.service.js';
 
@@ -235,7 +236,7 @@ export class DockingService {
     const tol = this.tolerance(site, station);
     const current = results.filter((r) => r.modelVersionId === station.modelVersionId);
     const samples: DockingSample[] = current.map((r) => ({ tMs: r.tMs, dx: r.dx, dy: r.dy, dyaw: r.dyaw }));
-    const dayOf = (t: number) => DateTime.fromMillis(t, { zone: site.timezone }).toISODate()!;
+    const dayOf = localDayFinder(site.timezone);
     const verdict: DriftVerdict = detectDrift(samples, tol, now.getTime(), dayOf);
     const today = DateTime.fromJSDate(now, { zone: site.timezone });
     // "22 Nov" this year, "3 Feb 2027" in another.

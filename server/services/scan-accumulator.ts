@@ -1,5 +1,4 @@
 import { deflateRawSync } from 'node:zlib';
-import { DateTime } from 'luxon';
 import { encodeChunkCounters, splitIntoChunks } from '../../shared/evidence/chunks.js';
 import { frameU, frameV, makeGridFrame } from '../../shared/grid/transform.js';
 import { accumulateScan, createCounters, type EvidenceCounters } from '../../shared/scan/accumulate.js';
@@ -9,6 +8,7 @@ import type { OccupancyGrid } from '../../shared/types/grid.js';
 import type { Robot } from '../entities/index.js';
 import type { RejectedLine } from '../entities/scan-batch.entity.js';
 import { ChunkSpill, type ChunkKey, type PendingChunk } from './chunk-spill.js';
+import { localDayFinder } from './site-days.js';
 
 /** Most refused lines kept with their reasons per batch; the count covers all. */
 export const MAX_REJECTED_KEPT = 200;
@@ -129,7 +129,8 @@ export class ScanAccumulator {
   private readonly frame;
   private readonly blockCols: number;
   private readonly blockCount: number;
-  private lastDay = { start: Infinity, end: -Infinity, day: '' };
+  // Scans arrive in time order, so the day of the previous scan is usually the answer.
+  private readonly dayOf: (ms: number) => string;
   // The stat and block counters the current scan's returns are added to (set before each scan).
   private current: { stat: PendingStat; blocks: Uint32Array } | null = null;
   readonly figures: BatchFigures = { lines: 0, scans: 0, poses: 0, beams: 0, returns: 0, explained: 0, outOfMap: 0, rejectedCount: 0, rejectedLines: [], days: [] };
@@ -138,6 +139,7 @@ export class ScanAccumulator {
     const cells = ctx.grid.width * ctx.grid.height;
     this.maxResident = Math.max(1, Math.floor(RESIDENT_BUDGET_BYTES / (8 * cells)));
     this.spill = new ChunkSpill(ctx.spillFile);
+    this.dayOf = localDayFinder(ctx.timezone);
     this.frame = makeGridFrame(ctx.grid);
     this.blockCols = Math.ceil(ctx.grid.width / ctx.agreement.blockCells);
     this.blockCount = this.blockCols * Math.ceil(ctx.grid.height / ctx.agreement.blockCells);
@@ -268,15 +270,6 @@ export class ScanAccumulator {
     return b.counts;
   }
 
-  // Scans arrive in time order, so the day of the previous scan is usually the answer; only a
-  // scan outside that day's bounds pays for a time-zone conversion.
-  private dayOf(ms: number): string {
-    if (ms >= this.lastDay.start && ms < this.lastDay.end) return this.lastDay.day;
-    const local = DateTime.fromMillis(ms, { zone: this.ctx.timezone });
-    const start = local.startOf('day');
-    this.lastDay = { start: start.toMillis(), end: start.plus({ days: 1 }).toMillis(), day: local.toISODate()! };
-    return this.lastDay.day;
-  }
 
   private countersFor(robotId: string, day: string): EvidenceCounters {
     const key = `${robotId}|${day}`;

@@ -27,3 +27,18 @@ export function addDays(day: string, n: number): string {
 export function localDay(timezone: string, at: Date): string {
   return DateTime.fromJSDate(at, { zone: timezone }).toISODate()!;
 }
+
+/**
+ * Returns a function giving the site-local calendar day (YYYY-MM-DD) of an instant in ms. It keeps
+ * the last day's bounds, so instants that come in time order rarely need a time-zone conversion.
+ */
+export function localDayFinder(timezone: string): (ms: number) => string {
+  let last = { start: Infinity, end: -Infinity, day: '' };
+  return (ms) => {
+    if (ms >= last.start && ms < last.end) return last.day;
+    const local = DateTime.fromMillis(ms, { zone: timezone });
+    const start = local.startOf('day');
+    last = { start: start.toMillis(), end: start.plus({ days: 1 }).toMillis(), day: local.toISODate()! };
+    return last.day;
+  };
+}

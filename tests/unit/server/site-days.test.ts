@@ -1,6 +1,6 @@
 import { DateTime } from 'luxon';
 import { describe, expect, it } from 'vitest';
-import { addDays, completeDays, daysBetween, localDay } from '../../../server/services/site-days.js';
+import { addDays, completeDays, daysBetween, localDay, localDayFinder } from '../../../server/services/site-days.js';
 
 // Checked against luxon@3.7.2's calendar arithmetic in the site's zone (the way these were computed before).
 const luxonCompleteDays = (zone: string, now: Date, count: number) => {
@@ -30,6 +30,16 @@ describe('site days', () => {
     expect(addDays('2028-02-28', 1)).toBe('2028-02-29');
     expect(addDays('2027-02-28', 1)).toBe('2027-03-01');
     expect(addDays('2026-11-09', -40)).toBe('2026-09-30');
+  });
+
+  it('when instants come in time order across a clock change, or out of order, then the remembered day bounds give the same days as localDay', () => {
+    const start = Date.parse('2026-10-24T12:00:00Z');
+    const inOrder = Array.from({ length: 200 }, (_, k) => start + k * 17 * 60_000);
+    const shuffled = [...inOrder].reverse().concat(inOrder.filter((_, k) => k % 3 === 0));
+    for (const zone of ['Europe/London', 'America/Chicago']) {
+      const dayOf = localDayFinder(zone);
+      for (const ms of [...inOrder, ...shuffled]) expect(dayOf(ms)).toBe(localDay(zone, new Date(ms)));
+    }
   });
 
   it('when it is still the evening before in the site’s zone, then the local day is that evening’s date', () => {

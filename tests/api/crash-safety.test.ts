@@ -20,7 +20,8 @@ import { bundleServer, freePort, httpRequest, ServerProcess } from './helpers/se
 import { createTestApp, demoIds } from './helpers/test-app.js';
 
 // The real server as a child process, killed with SIGKILL at random moments while robots post
-// scan batches (some at once, some twice) and a recorded log is being read, then started again
+// scan batches (some at once, some twice) and a recorded log is being read, or just as a batch's
+// answer begins (committed, never acknowledged), then started again
 // and every unacknowledged batch retried. At the end each batch must be counted exactly once and
 // the stored evidence must equal that of one uninterrupted run of the same batches.
 //
@@ -66,6 +67,12 @@ function figuresOf(lines: ScanLogLine[]) {
   return { scans: lines.length, beams, returns };
 }
 
+/** One run of the server between two kills; `killOnCommit`, when set, kills it at the next 201's status line. */
+interface Life {
+  dying: boolean;
+  killOnCommit?: () => void;
+}
+
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 // The test reads loosely typed JSON answers of our own API.
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
@@ -83,6 +90,7 @@ describe('crash safety', () => {
   it(
     'when the server is killed at random moments while batches and a log arrive, then after restarts and retries every batch is counted once and no evidence is lost or damaged',
     async () => {
+      if (!Number.isInteger(KILLS) || KILLS < 2) throw new Error(`CRASH_KILLS must be a whole number of 2 or more, not "${process.env.CRASH_KILLS}".`);
       const t0 = performance.now();
       console.log(`crash safety: seed ${SEED} (repeat with CRASH_SEED=${SEED})`);
       const rng = createRng(SEED);
@@ -169,16 +177,28 @@ describe('crash safety', () => {
       let concurrentCopies = 0;
       let startupKills = 0;
       let midRequestKills = 0;
+      let killsAfterCommit = 0;
       let killedUpload: { id: string; statusAtKill: string } | null = null;
 
-      const postBatch = async (b: Batch, kind: 'first' | 'copy' | 'replay', current: { dying: boolean }) => {
+      const postBatch = async (b: Batch, kind: 'first' | 'copy' | 'replay', current: Life) => {
         inFlight.set(b, (inFlight.get(b) ?? 0) + 1);
+        // The server committed and began to answer when it was killed: the robot never hears the answer.
+        let answerLost = false;
+        const onStatus = (status: number) => {
+          if (status !== 201 || !current.killOnCommit) return;
+          const killNow = current.killOnCommit;
+          current.killOnCommit = undefined;
+          answerLost = true;
+          killNow();
+        };
         try {
           const answer = await httpRequest(`${base}/api/ingest/scans`, {
             method: 'POST',
             headers: { authorization: `Bearer ${tokens.get(b.robot)}`, 'content-type': 'application/x-ndjson', 'idempotency-key': b.key },
             body: b.body,
+            onStatus: kind === 'replay' ? undefined : onStatus,
           });
+          if (answerLost) throw new Error('the server was killed as it answered');
           const body = answer.body as Json;
           if (answer.status === 201 && body.status === 'counted') {
             b.counted++;
@@ -217,7 +237,7 @@ describe('crash safety', () => {
           if (b.ackId === null && !inFlight.has(b) && !pending.includes(b)) pending.push(b);
         }
       };
-      const worker = async (current: { dying: boolean }, stopWhenDone: boolean) => {
+      const worker = async (current: Life, stopWhenDone: boolean) => {
         while (!current.dying && violations.length < 20) {
           const acked = batches.filter((b) => b.ackId !== null);
           const r = rng.next();
@@ -245,7 +265,7 @@ describe('crash safety', () => {
       };
 
       for (let kill = 0; kill < KILLS; kill++) {
-        const current = { dying: false };
+        const current: Life = { dying: false };
         if (kill > 1 && kill !== UPLOAD_LIFE && rng.chance(0.12)) {
           // Killed while starting: migrations, marking interrupted uploads, seeding checks.
           const delay = rng.range(0, startupMs[startupMs.length - 1]);
@@ -267,8 +287,19 @@ describe('crash safety', () => {
           uploadId = (await api(`/api/sites/${site.id}/scan-batches`, { method: 'POST', body: upload })).batch.id;
         }
         const workers = Array.from({ length: WORKERS }, () => worker(current, false));
-        // Short lives: three workers keep the server busy, so most kills land inside a batch.
-        await sleep(kill === UPLOAD_LIFE ? rng.range(150, 700) : rng.range(10, 400));
+        // Short lives: three workers keep the server busy, so most kills land inside a batch. About
+        // one life in four instead ends as a batch's answer starts: committed, never acknowledged.
+        let killNow = () => {};
+        const killRequested = new Promise<void>((resolve) => (killNow = resolve));
+        const afterCommit = kill !== UPLOAD_LIFE && pending.length > 0 && rng.chance(0.25);
+        if (afterCommit) {
+          current.killOnCommit = () => {
+            killsAfterCommit++;
+            current.dying = true;
+            killNow();
+          };
+        }
+        await Promise.race([sleep(afterCommit ? 3000 : kill === UPLOAD_LIFE ? rng.range(150, 700) : rng.range(10, 400)), killRequested]);
         if (uploadId) killedUpload = { id: uploadId, statusAtKill: (await api(`/api/sites/${site.id}/scan-batches/${uploadId}`)).batch.status };
         const inFlightAtKill = [...inFlight.keys()].length;
         current.dying = true;
@@ -300,7 +331,7 @@ describe('crash safety', () => {
       await srv.kill();
       phase('retries, upload and replays');
       console.log(
-        `crash safety: ${KILLS} kills (${midRequestKills} with batches in flight, ${startupKills} while starting; the uploaded log was ${killedUpload?.statusAtKill} at its kill, then ${killed?.status}, sent again: ${again.status}), ` +
+        `crash safety: ${KILLS} kills (${midRequestKills} with batches in flight, ${killsAfterCommit} of them as a 201 began, ${startupKills} while starting; the uploaded log was ${killedUpload?.statusAtKill} at its kill, then ${killed?.status}, sent again: ${again.status}), ` +
           `${batches.length} batches, ${interruptedPosts} posts of ${batches.filter((b) => b.interrupted > 0).length} batches interrupted in flight, ${committedUnacknowledged} of those batches committed before the kill ("already received" on retry), ` +
           `${replays + batches.length} replays (${interruptedReplays} interrupted), ${concurrentCopies} concurrent copies, ${unacknowledged} never acknowledged, ${violations.length} wrong answers`,
       );

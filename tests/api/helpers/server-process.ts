@@ -40,10 +40,12 @@ export interface HttpAnswer {
 /**
  * Sends one request on a connection of its own (no keep-alive pool, so a connection to a killed
  * server is never reused); rejects when the connection fails or breaks before the whole answer.
+ * `onStatus` hears the status line as soon as it arrives, before the body.
  */
-export function httpRequest(url: string, options: { method?: string; headers?: Record<string, string>; body?: string | Buffer } = {}): Promise<HttpAnswer> {
+export function httpRequest(url: string, options: { method?: string; headers?: Record<string, string>; body?: string | Buffer; onStatus?: (status: number) => void } = {}): Promise<HttpAnswer> {
   return new Promise((resolve, reject) => {
     const req = request(url, { method: options.method ?? 'GET', headers: options.headers, agent: false }, (res) => {
+      options.onStatus?.(res.statusCode ?? 0);
       const parts: Buffer[] = [];
       res.on('data', (c: Buffer) => parts.push(c));
       res.on('error', reject);

@@ -1,6 +1,4 @@
-import type { AddressInfo } from 'node:net';
 import { simpleParser, type ParsedMail } from 'mailparser';
-import { SMTPServer } from 'smtp-server';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { DailyStat, Organization, Recipient, Robot, Site } from '../../server/entities/index.js';
@@ -8,6 +6,7 @@ import { newId } from '../../server/services/ids.js';
 import { reportJob } from '../../jobs/report.job.js';
 import { insertZone, roomMap } from './helpers/fixtures.js';
 import { actorByEmail, ADMIN_EMAIL } from './helpers/remap-fixtures.js';
+import { startSmtpCapture, type ReceivedMessage } from './helpers/smtp-capture.js';
 import { createTestApp, signIn, type TestApp } from './helpers/test-app.js';
 
 // The monthly report end to end over real SMTP: the app's mail queue delivers to an SMTP server the
@@ -17,28 +16,16 @@ const NOW = new Date('2026-12-02T09:00:00Z');
 
 describe('monthly report over SMTP', () => {
   let t: TestApp;
-  let smtp: SMTPServer;
-  const received: Array<{ to: string[]; raw: Buffer }> = [];
+  let smtp: Awaited<ReturnType<typeof startSmtpCapture>>;
+  let received: ReceivedMessage[];
   let orgId: string;
   let siteId: string;
 
   beforeAll(async () => {
     vi.useFakeTimers({ now: NOW, toFake: ['Date'] });
-    smtp = new SMTPServer({
-      disabledCommands: ['STARTTLS', 'AUTH'],
-      authOptional: true,
-      logger: false,
-      onData(stream, session, done) {
-        const chunks: Buffer[] = [];
-        stream.on('data', (c: Buffer) => chunks.push(c));
-        stream.on('end', () => {
-          received.push({ to: session.envelope.rcptTo.map((r) => r.address), raw: Buffer.concat(chunks) });
-          done();
-        });
-      },
-    });
-    await new Promise<void>((resolve) => smtp.listen(0, '127.0.0.1', resolve));
-    const port = (smtp.server.address() as AddressInfo).port;
+    smtp = await startSmtpCapture();
+    received = smtp.received;
+    const port = smtp.port;
     t = await createTestApp({ config: { smtp: { host: null, port, secure: false, from: 'Driftline <driftline@localhost>' } } });
     orgId = newId();
     siteId = newId();
@@ -61,7 +48,7 @@ describe('monthly report over SMTP', () => {
   afterAll(async () => {
     vi.useRealTimers();
     await t.close();
-    await new Promise<void>((resolve) => smtp.close(() => resolve()));
+    await smtp.close();
   });
 
   const deliver = async (count: number) => {

@@ -1,5 +1,4 @@
 import Handlebars from 'handlebars';
-import mjml2html from 'mjml';
 import { templates, type TemplateName } from './templates.js';
 
 /** The usual caution every Driftline mail ends with. */
@@ -20,6 +19,8 @@ export async function renderMail(name: TemplateName, data: Record<string, unknow
     compiled.set(name, t);
   }
   const context = { ...data, caution: SAFETY_CAUTION };
+  // mjml is heavy to load (≈ 1 s of a busy start-up): load it with the first mail, not with the server.
+  const { default: mjml2html } = await import('mjml');
   const { html, errors } = await mjml2html(t.html(context), { validationLevel: 'soft' });
   if (errors.length > 0) throw new Error(`The mail template ${name} is invalid: ${errors.map((e) => e.formattedMessage).join('; ')}`);
   return { html, text: t.text(context).replace(/\n{3,}/g, '\n\n').trim() + '\n' };

@@ -17,6 +17,9 @@ function issueSentence(issue: z.core.$ZodIssue): string {
   return issue.message;
 }
 
+/** How a message names each part of a request. */
+const partNames = { headers: 'The request headers are', params: 'The address is', query: 'The query string is', body: 'The request body is' } as const;
+
 /** Validates headers, params, query and body with zod; the parsed values land in `res.locals.headers/params/query/body`. */
 export function validate(schemas: Schemas) {
   return (req: Request, res: Response, next: NextFunction) => {
@@ -28,7 +31,7 @@ export function validate(schemas: Schemas) {
         const flat = z.flattenError(result.error);
         const first = result.error.issues[0];
         const where = first?.path.length ? `${first.path.join('.')}: ` : '';
-        throw badRequest(`The request ${part === 'body' ? 'body' : part} is not valid: ${where}${first ? issueSentence(first) : 'invalid'}.`, {
+        throw badRequest(`${partNames[part]} not valid: ${where}${first ? issueSentence(first) : 'invalid'}.`, {
           fieldErrors: flat.fieldErrors,
           formErrors: flat.formErrors,
         });
